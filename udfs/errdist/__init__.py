@@ -3,3 +3,19 @@
 from __future__ import annotations
 
 __version__ = "0.1.0"
+
+# --- distribution functions (owner: core-distribution) ---
+from errdist.distribution import (  # noqa: E402, F401
+    cdf,
+    check_params,
+    excess_kurtosis,
+    isf,
+    logcdf,
+    logpdf,
+    logsf,
+    pdf,
+    ppf,
+    rvs,
+    sf,
+    variance,
+)
