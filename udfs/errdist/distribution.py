@@ -226,31 +226,6 @@ def _log_q_cf(a: NDArray[np.float64], z: NDArray[np.float64]) -> NDArray[np.floa
     return out
 
 
-def _log_q(
-    a: NDArray[np.float64], z: NDArray[np.float64]
-) -> tuple[NDArray[np.float64], NDArray[np.float64]]:
-    """``(Q(a, z), log Q(a, z))``; the log stays finite where ``gammaincc`` underflows."""
-    q = np.asarray(_gammaincc(a, z), dtype=np.float64)
-    with np.errstate(divide="ignore"):
-        out = np.log(q)
-    small = q < _Q_SWITCH
-    if np.any(small):
-        ab = np.broadcast_to(a, q.shape)[small]
-        zb = np.broadcast_to(z, q.shape)[small]
-        out = np.array(out, copy=True)
-        out[small] = _log_q_cf(ab, zb)
-    return q, out
-
-
-def _log_q_scalar(a: float, z: float) -> float:
-    q = float(_gammaincc(a, z))
-    if q >= _Q_SWITCH:
-        return math.log(q)
-    if z == _INF:
-        return -_INF
-    return float(_log_q_cf(np.array([a]), np.array([z]))[0])
-
-
 # --------------------------------------------------------------------------------------------
 # densities
 # --------------------------------------------------------------------------------------------
@@ -339,16 +314,72 @@ def pdf(
 # --------------------------------------------------------------------------------------------
 # distribution and survival functions
 # --------------------------------------------------------------------------------------------
-def _tail_arrays(
-    x: ArrayLike, loc: ArrayLike, scale: ArrayLike, shape: ArrayLike
-) -> tuple[NDArray[np.float64], NDArray[np.float64], NDArray[np.float64]]:
-    """Standardised offset ``d``, ``z = |d|**b`` and ``1/b`` for the array paths."""
-    xa = _as_float_array("x", x)
-    m, a, b = _params(loc, scale, shape)
-    d = (xa - m) / a
+def _q_scalar(d: float, shape: float) -> float:
+    """Upper tail mass ``Q(1/b, |d|**b)`` for a standardised offset ``d`` (scalar).
+
+    Shape 2 uses ``erfc(|d|)`` and shape 1 ``exp(-|d|)`` (exact identities for Q(1/2, d^2) and
+    Q(1, |d|), Abramowitz & Stegun 6.5.17 and 6.5.13): faster, and they skip rounding ``d**2``.
+    """
+    if shape == 2.0:
+        return math.erfc(abs(d))
+    if shape == 1.0:
+        return math.exp(-abs(d))
+    return float(_gammaincc(1.0 / shape, _scalar_z(d, shape)))
+
+
+def _q_array(d: NDArray[np.float64], b: NDArray[np.float64]) -> NDArray[np.float64]:
+    """Array version of :func:`_q_scalar` (special forms only for a scalar shape)."""
+    if b.ndim == 0:
+        bv = float(b)
+        if bv == 2.0:
+            return np.asarray(sc.erfc(np.abs(d)), dtype=np.float64)
+        if bv == 1.0:
+            return np.exp(-np.abs(d))
     with np.errstate(over="ignore"):
         z = np.abs(d) ** b
-    return d, z, 1.0 / b
+    return np.asarray(_gammaincc(1.0 / b, z), dtype=np.float64)
+
+
+def _std_offsets(
+    x: ArrayLike, loc: ArrayLike, scale: ArrayLike, shape: ArrayLike
+) -> tuple[NDArray[np.float64], NDArray[np.float64]]:
+    """Validated ``d = (x - loc) / scale`` and ``shape`` as arrays."""
+    xa = _as_float_array("x", x)
+    m, a, b = _params(loc, scale, shape)
+    d = np.subtract(xa, m)
+    if d.ndim > 0 and d.shape == np.broadcast_shapes(d.shape, a.shape):
+        d /= a  # in place: d is a fresh array of the final shape
+    else:
+        d = np.divide(d, a)
+    return d, b
+
+
+def _log_q_array(
+    d: NDArray[np.float64], b: NDArray[np.float64]
+) -> tuple[NDArray[np.float64], NDArray[np.float64]]:
+    """``(Q, log Q)`` of ``Q(1/b, |d|**b)``; the log stays finite where ``Q`` underflows."""
+    q = _q_array(d, b)
+    with np.errstate(divide="ignore"):
+        out = np.log(q)
+    small = q < _Q_SWITCH
+    if np.any(small):
+        with np.errstate(over="ignore"):
+            zb = (np.abs(np.broadcast_to(d, q.shape)[small])) ** np.broadcast_to(b, q.shape)[small]
+        ab = 1.0 / np.broadcast_to(b, q.shape)[small]
+        out = np.array(out, copy=True)
+        out[small] = _log_q_cf(ab, zb)
+    return q, out
+
+
+def _log_q_scalar(d: float, shape: float) -> tuple[float, float]:
+    """Scalar ``(Q, log Q)`` of ``Q(1/b, |d|**b)``."""
+    q = _q_scalar(d, shape)
+    if q >= _Q_SWITCH:
+        return q, math.log(q)
+    z = _scalar_z(d, shape)
+    if z == _INF:
+        return q, -_INF
+    return q, float(_log_q_cf(np.array([1.0 / shape]), np.array([z]))[0])
 
 
 def cdf(
@@ -387,12 +418,13 @@ def cdf(
         if not (0.0 < scale < _INF and 0.0 < shape < _INF and -_INF < loc < _INF):
             check_params(loc, scale, shape)
         d = (x - loc) / scale
-        h = 0.5 * float(_gammaincc(1.0 / shape, _scalar_z(d, shape)))
+        h = 0.5 * _q_scalar(d, shape)
         return h if d < 0.0 else 1.0 - h
-    d, z, ia = _tail_arrays(x, loc, scale, shape)
-    h = _gammaincc(ia, z)
+    d, b = _std_offsets(x, loc, scale, shape)
+    h = _q_array(d, b)
     h *= 0.5
-    return _out(np.where(d < 0.0, h, 1.0 - h))
+    near = np.subtract(1.0, h)
+    return _out(np.where(d < 0.0, h, near))
 
 
 def sf(
@@ -424,12 +456,13 @@ def sf(
         if not (0.0 < scale < _INF and 0.0 < shape < _INF and -_INF < loc < _INF):
             check_params(loc, scale, shape)
         d = (x - loc) / scale
-        h = 0.5 * float(_gammaincc(1.0 / shape, _scalar_z(d, shape)))
+        h = 0.5 * _q_scalar(d, shape)
         return h if d > 0.0 else 1.0 - h
-    d, z, ia = _tail_arrays(x, loc, scale, shape)
-    h = _gammaincc(ia, z)
+    d, b = _std_offsets(x, loc, scale, shape)
+    h = _q_array(d, b)
     h *= 0.5
-    return _out(np.where(d > 0.0, h, 1.0 - h))
+    near = np.subtract(1.0, h)
+    return _out(np.where(d > 0.0, h, near))
 
 
 def logcdf(
@@ -464,12 +497,11 @@ def logcdf(
         if not (0.0 < scale < _INF and 0.0 < shape < _INF and -_INF < loc < _INF):
             check_params(loc, scale, shape)
         d = (x - loc) / scale
-        z = _scalar_z(d, shape)
         if d < 0.0:
-            return _LOG_HALF + _log_q_scalar(1.0 / shape, z)
-        return math.log1p(-0.5 * float(_gammaincc(1.0 / shape, z)))
-    d, z, ia = _tail_arrays(x, loc, scale, shape)
-    q, lq = _log_q(ia, z)
+            return _LOG_HALF + _log_q_scalar(d, shape)[1]
+        return math.log1p(-0.5 * _q_scalar(d, shape))
+    d, b = _std_offsets(x, loc, scale, shape)
+    q, lq = _log_q_array(d, b)
     return _out(np.where(d < 0.0, _LOG_HALF + lq, np.log1p(-0.5 * q)))
 
 
@@ -503,12 +535,11 @@ def logsf(
         if not (0.0 < scale < _INF and 0.0 < shape < _INF and -_INF < loc < _INF):
             check_params(loc, scale, shape)
         d = (x - loc) / scale
-        z = _scalar_z(d, shape)
         if d > 0.0:
-            return _LOG_HALF + _log_q_scalar(1.0 / shape, z)
-        return math.log1p(-0.5 * float(_gammaincc(1.0 / shape, z)))
-    d, z, ia = _tail_arrays(x, loc, scale, shape)
-    q, lq = _log_q(ia, z)
+            return _LOG_HALF + _log_q_scalar(d, shape)[1]
+        return math.log1p(-0.5 * _q_scalar(d, shape))
+    d, b = _std_offsets(x, loc, scale, shape)
+    q, lq = _log_q_array(d, b)
     return _out(np.where(d > 0.0, _LOG_HALF + lq, np.log1p(-0.5 * q)))
 
 
