@@ -19,3 +19,20 @@ from errdist.distribution import (  # noqa: E402, F401
     sf,
     variance,
 )
+
+# --- estimation (owner: core-estimate) ---
+from errdist.estimate import (  # noqa: E402, F401
+    SHAPE_MAX,
+    SHAPE_MIN,
+    Fit,
+    clean_sample,
+    fit,
+    loglik,
+    sample_excess_kurtosis,
+    sample_mean,
+    sample_median,
+    sample_skewness,
+    sample_std,
+    solve_scale,
+    solve_shape,
+)
