@@ -36,3 +36,6 @@ from errdist.estimate import (  # noqa: E402, F401
     solve_scale,
     solve_shape,
 )
+
+# --- risk measures (owner: risk) ---
+from errdist.risk import expected_shortfall, value_at_risk  # noqa: E402, F401
