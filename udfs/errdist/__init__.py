@@ -39,3 +39,9 @@ from errdist.estimate import (  # noqa: E402, F401
 
 # --- risk measures (owner: risk) ---
 from errdist.risk import expected_shortfall, value_at_risk  # noqa: E402, F401
+
+# --- model checking: goodness of fit, rival laws, chart points (owner: model-checking) ---
+# isort: split
+from errdist.empirical import empirical_points, plotting_positions  # noqa: E402, F401
+from errdist.goodness import GofResult, edf_statistic, goodness_of_fit  # noqa: E402, F401
+from errdist.rivals import compare  # noqa: E402, F401
