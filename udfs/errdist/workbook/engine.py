@@ -213,6 +213,11 @@ def _to_engine_value(value: Any, error: Any) -> Any:
         return "" if math.isnan(v) else v
     if isinstance(value, str) and value in ERROR_CODES:
         return error.errors[value]
+    if isinstance(value, BaseException):  # a spill cell out of its domain (SheetError)
+        code = _error_code(value) or "#VALUE!"
+        if _MESSAGES is not None:
+            _MESSAGES.append(f"cell of a spilled result: {code} {getattr(value, 'message', value)}")
+        return error.errors[code]
     return value
 
 

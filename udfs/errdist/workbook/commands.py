@@ -1,0 +1,223 @@
+"""The unattended commands: ``errdist demo``, ``errdist refresh`` and ``errdist check``.
+
+``errdist.cli`` parses the arguments and calls :func:`run_demo`, :func:`run_refresh` and
+:func:`run_check`; each returns the exit code. Bad input raises ``ValueError``/``OSError``
+subclasses, which the CLI prints as one line (exit code 2). Workbooks are written atomically
+(:mod:`errdist.workbook.atomic`): the output file is either complete or not there at all, and
+an existing file is overwritten only with ``--force``.
+
+Progress lines for steps that take a second or more go to standard error
+(``evaluating workbook… 4.1 s``); the summary goes to standard output.
+"""
+
+from __future__ import annotations
+
+import argparse
+import math
+import re
+import sys
+import time
+from collections.abc import Callable, Iterator, Mapping
+from contextlib import contextmanager
+from pathlib import Path
+from typing import Any, TextIO
+
+from errdist.workbook.atomic import atomic_path, check_target
+
+DEFAULT_DEMO_FILE = "errdist-demo.xlsx"
+"""Workbook written by ``errdist demo`` when ``--out`` is not given (in the current folder)."""
+
+PROGRESS_AFTER = 1.0
+"""Steps that take at least this many seconds get a progress line."""
+
+MAX_LISTED = 50
+"""Mismatches printed by ``errdist check`` before "... and N more"."""
+
+
+class _Progress:
+    """Times named steps; reports those that take ``PROGRESS_AFTER`` seconds or more."""
+
+    def __init__(self, stream: TextIO | None = None) -> None:
+        self.stream = stream
+        self.timings: dict[str, float] = {}
+
+    @contextmanager
+    def step(self, name: str) -> Iterator[None]:
+        t0 = time.perf_counter()
+        yield
+        elapsed = time.perf_counter() - t0
+        self.timings[name] = elapsed
+        if elapsed >= PROGRESS_AFTER:
+            print(f"{name}… {elapsed:.1f} s", file=self.stream or sys.stderr, flush=True)
+
+
+def _evaluator_with_progress(
+    progress: _Progress,
+) -> Callable[[Path], Mapping[tuple[str, str], Any]]:
+    from errdist.workbook import engine
+
+    def evaluate(path: Path) -> Mapping[tuple[str, str], Any]:
+        with progress.step("evaluating workbook"):
+            return engine.evaluate_workbook(path)
+
+    return evaluate
+
+
+def _build(
+    prices: Any, out: Path, *, fund_name: str, as_of: Any, force: bool, progress: _Progress
+) -> Any:
+    """Build the workbook into a temporary file and move it onto ``out`` atomically."""
+    from errdist.workbook import template
+
+    with atomic_path(out, force=force) as tmp, progress.step("building workbook"):
+        return template.build_workbook(
+            prices,
+            tmp,
+            fund_name=fund_name,
+            as_of=as_of,
+            evaluate=_evaluator_with_progress(progress),
+        )
+
+
+def _num(v: Any, fmt: str) -> str:
+    try:
+        x = float(v)
+    except (TypeError, ValueError):
+        return "n/a"
+    return "n/a" if math.isnan(x) else format(x, fmt)
+
+
+def format_summary(summary: Mapping[str, Any], path: Path, seconds: float) -> str:
+    """The summary printed after a build: fund, period, both fits, 99% VaR/ES, backtest."""
+    lines = []
+    n = summary.get("n_returns")
+    n_text = f"{n:,} daily returns" if isinstance(n, int) else "daily returns"
+    lines.append(
+        f"{summary.get('fund', 'Portfolio')}: {summary.get('first_date', '?')} to "
+        f"{summary.get('last_date', '?')} ({n_text})"
+    )
+    lines.append(f"  {'fit':<9}{'loc':>12}{'scale':>12}{'shape':>9}")
+    for key, label in (("moments", "moments"), ("mle", "MLE")):
+        fit = summary.get(key) or {}
+        lines.append(
+            f"  {label:<9}{_num(fit.get('loc'), '12.6f')}{_num(fit.get('scale'), '12.6f')}"
+            f"{_num(fit.get('shape'), '9.4f')}"
+        )
+    lines.append(
+        f"  1-day 99%: VaR {_num(summary.get('var99'), '.3%')}, "
+        f"ES {_num(summary.get('es99'), '.3%')} (losses, fitted law)"
+    )
+    exc = summary.get("backtest_exceptions")
+    zone = summary.get("backtest_zone") or "n/a"
+    lines.append(f"  backtest: {_num(exc, '.0f')} exceptions, {zone} zone")
+    lines.append(f"wrote {path.resolve()} in {seconds:.1f} s")
+    return "\n".join(lines)
+
+
+def fund_name_from_file(path: str | Path) -> str:
+    """A fund name from a prices file's name: ``meridian_fund-prices-2026-11.csv`` ->
+    ``"meridian fund"``; ``"Portfolio"`` when nothing is left."""
+    stem = Path(path).stem
+    words = [w for w in re.split(r"[\s_\-.]+", stem) if w]
+    drop = {"prices", "price", "nav", "navs", "history", "daily", "data", "export"}
+    kept = [w for w in words if w.casefold() not in drop and not w.isdigit()]
+    return " ".join(kept) or "Portfolio"
+
+
+def run_demo(args: argparse.Namespace) -> int:
+    """``errdist demo``: build and evaluate the demo fund's workbook; print a summary.
+
+    Writes ``args.out`` (default ``errdist-demo.xlsx`` in the current folder), never over an
+    existing file unless ``args.force``.
+    """
+    from errdist.demo_data import FUND_NAME, simulate_prices
+
+    t0 = time.perf_counter()
+    out = Path(getattr(args, "out", None) or DEFAULT_DEMO_FILE)
+    force = bool(getattr(args, "force", False))
+    _require_xlsx(out)
+    check_target(out, force=force)
+    progress = _Progress()
+    with progress.step("simulating prices"):
+        prices = simulate_prices()
+    result = _build(prices, out, fund_name=FUND_NAME, as_of=None, force=force, progress=progress)
+    print(format_summary(result.summary, out, time.perf_counter() - t0))
+    return 0
+
+
+def _require_xlsx(out: Path) -> None:
+    if out.suffix.lower() != ".xlsx":
+        raise ValueError(f"--out must name an .xlsx file, got {out}")
+
+
+def run_refresh(args: argparse.Namespace) -> int:
+    """``errdist refresh``: read a prices file, build the month's workbook, print a summary.
+
+    Reads ``args.prices`` (:func:`errdist.workbook.prices_io.read_prices` with
+    ``args.date_column``, ``args.price_column``, ``args.as_of``) and writes ``args.out``
+    atomically, never over an existing file unless ``args.force``. The fund name is taken
+    from the prices file's name (:func:`fund_name_from_file`).
+    """
+    from errdist.workbook.prices_io import read_prices
+
+    t0 = time.perf_counter()
+    out = Path(args.out)
+    force = bool(getattr(args, "force", False))
+    _require_xlsx(out)
+    src = Path(args.prices)
+    if src.exists() and out.exists() and src.resolve() == out.resolve():
+        raise ValueError(f"--out {out} is the prices file itself; choose another name")
+    check_target(out, force=force)
+    progress = _Progress()
+    as_of = getattr(args, "as_of", None)
+    with progress.step("reading prices"):
+        prices = read_prices(
+            src,
+            date_column=getattr(args, "date_column", None),
+            price_column=getattr(args, "price_column", None),
+            as_of=as_of,
+        )
+    result = _build(
+        prices,
+        out,
+        fund_name=fund_name_from_file(src),
+        as_of=as_of,
+        force=force,
+        progress=progress,
+    )
+    first, last = prices.attrs.get("rows", (None, None))
+    if first is not None:
+        print(
+            f"read {len(prices):,} prices from {src} (rows {first}-{last}, columns "
+            f"{prices.attrs.get('date_column')!r} and {prices.attrs.get('price_column')!r})"
+        )
+    print(format_summary(result.summary, out, time.perf_counter() - t0))
+    return 0
+
+
+def run_check(args: argparse.Namespace) -> int:
+    """``errdist check BOOK``: recompute every formula and compare with the stored values.
+
+    Prints each mismatch (sheet!cell, formula, stored and recomputed values, relative
+    difference) or ``all N formula cells match``. Returns 1 when any cell differs or cannot
+    be recomputed, 0 otherwise.
+    """
+    from errdist.workbook.check import check_report
+
+    tolerance = getattr(args, "tolerance", 1e-9)
+    progress = _Progress()
+    with progress.step("recomputing workbook"):
+        report = check_report(args.book, tolerance)
+    if not report.mismatches:
+        print(f"all {report.cells:,} formula cells match (relative tolerance {tolerance:g})")
+        return 0
+    for m in report.mismatches[:MAX_LISTED]:
+        print(m)
+    extra = len(report.mismatches) - MAX_LISTED
+    if extra > 0:
+        print(f"... and {extra} more")
+    print(
+        f"{len(report.mismatches):,} of {report.cells:,} formula cells differ or cannot be "
+        f"recomputed (relative tolerance {tolerance:g})"
+    )
+    return 1
