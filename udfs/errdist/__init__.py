@@ -45,3 +45,7 @@ from errdist.risk import expected_shortfall, value_at_risk  # noqa: E402, F401
 from errdist.empirical import empirical_points, plotting_positions  # noqa: E402, F401
 from errdist.goodness import GofResult, edf_statistic, goodness_of_fit  # noqa: E402, F401
 from errdist.rivals import compare  # noqa: E402, F401
+
+# --- prices to returns (owner: worksheet layer) ---
+# isort: split
+from errdist.returns import returns_from_prices  # noqa: E402, F401

@@ -1,0 +1,532 @@
+"""THE catalog of errdist's worksheet functions.
+
+One :class:`~errdist.sheet.entry.Entry` per worksheet function: its name, the core callable,
+its parameters (name, kind ``number | range | text | flag``, default, description of at most
+255 characters, a valid example), the shape of its result, a summary of at most 255
+characters and the category "Error distribution". Everything else is derived from this table,
+never typed twice:
+
+- ``errdist.sheet.xlwings_udfs`` - the xlwings functions with real signatures and
+  ``@xw.func`` / ``@xw.arg`` / ``@xw.ret`` decorations (built by :mod:`errdist.sheet.udfs`);
+- ``errdist vba`` - the VBA module text for manual import (:mod:`errdist.sheet.vba`);
+- ``docs/functions.md`` - the function reference (``python -m errdist.sheet.docs``);
+- :func:`evaluate` - the registry the headless workbook engine calls;
+- the harness, bad-input and fuzz tests, which are parametrised over :data:`CATALOG`.
+
+Adding a worksheet function
+---------------------------
+Write the core function first (in the module that holds its subject). Then add ONE block at
+the end of this file (or of the risk section)::
+
+    add(
+        Entry(
+            name="ERRDIST_MYFUNC",
+            core="errdist.mymodule:my_function",     # or the callable itself
+            params=(
+                number("x", "Where to evaluate ...", example=0.5),
+                number("scale", "Scale a > 0 ...", example=1.0),
+                flag("upper", "TRUE gives ...", default=False),
+            ),
+            result="spill",           # "scalar" | "spill" | "table" | "column"
+            summary="One sentence for the function wizard.",
+            # call=_adapter,          # only when the core is not called as core(*args)
+            # header=("a", "b"),      # tables: labels shown when the `header` flag is TRUE
+            # vectorized=False,       # when the core takes scalars only
+        )
+    )
+
+Rules the tests enforce for every entry: the name starts with ``ERRDIST_``; descriptions and
+summary are at most 255 characters; every parameter has a valid ``example`` (the harness calls
+the function with the examples, and the bad-input matrix replaces one example at a time);
+optional parameters come last; number parameters of a non-``spill`` entry are ``spill=False``.
+Then run ``python -m errdist.sheet.docs`` to regenerate ``docs/functions.md``. Nothing else
+needs editing: xlwings functions, VBA wrappers, the engine registry and the tests pick the
+entry up by themselves.
+
+The helpers below the table (``_cdf``, ``_fit_row``...) adapt converted cell arguments to the
+core's signatures; they hold no statistics.
+"""
+
+from __future__ import annotations
+
+import math
+import sys
+from typing import Any
+
+import numpy as np
+
+from errdist import distribution, estimate, returns
+from errdist.errors import ErrdistError
+from errdist.sheet.cells import SheetError, sheet_error
+from errdist.sheet.entry import (
+    CATEGORY,
+    MISSING,
+    REQUIRED,
+    Entry,
+    Param,
+    data_range,
+    flag,
+    number,
+    text,
+)
+
+__all__ = [
+    "CATALOG",
+    "CATEGORY",
+    "MISSING",
+    "REQUIRED",
+    "Entry",
+    "Param",
+    "SheetError",
+    "add",
+    "data_range",
+    "evaluate",
+    "flag",
+    "get",
+    "names",
+    "number",
+    "text",
+]
+
+#: Name -> entry, in the order of the function reference.
+CATALOG: dict[str, Entry] = {}
+
+
+def add(entry: Entry) -> Entry:
+    """Add ``entry`` to :data:`CATALOG` (names are unique)."""
+    if entry.name in CATALOG:
+        raise ValueError(f"{entry.name} is already in the catalog")
+    CATALOG[entry.name] = entry
+    return entry
+
+
+def get(name: str) -> Entry:
+    """The entry of worksheet function ``name`` (case-insensitive)."""
+    try:
+        return CATALOG[name.upper()]
+    except KeyError:
+        raise SheetError("#VALUE!", f"unknown function {name}") from None
+
+
+def names() -> list[str]:
+    """The worksheet function names, in catalog order."""
+    return list(CATALOG)
+
+
+def evaluate(name: str, *cell_args: Any) -> Any:
+    """Evaluate worksheet function ``name`` on cell values, as the headless engine does.
+
+    Parameters
+    ----------
+    name : str
+        ``"ERRDIST_PDF"`` etc. (case-insensitive).
+    *cell_args
+        Cell values as the engine hands them over: scalars (float, int, str, bool, None for a
+        blank), 2-D lists or numpy arrays for ranges, error values as ``'#N/A'``-style texts;
+        :data:`MISSING` (or fewer arguments) for omitted optional arguments.
+
+    Returns
+    -------
+    scalar or list of rows
+        NaN results are ``None`` (a blank cell). A spill in which single cells are out of
+        their domain holds :class:`SheetError` objects in those cells.
+
+    Raises
+    ------
+    SheetError
+        The call as a whole fails; ``code`` is ``"#NUM!"``, ``"#VALUE!"`` or ``"#N/A"``.
+    """
+    return get(name).evaluate(cell_args)
+
+
+# =====================================================================================
+# Shared parameter descriptions
+# =====================================================================================
+
+_LOC = "Location m: the centre (mean and median) of the law, in the units of the data."
+_SCALE = "Scale a > 0, in the units of the data. For shape 2 the standard deviation is a/sqrt(2)."
+_SHAPE = "Shape b > 0: 2 is the normal law, 1 the Laplace law; below 2 the tails are heavier."
+_DATA = "Range of numbers (e.g. returns). Blank cells are skipped; text or error cells are refused."
+
+
+def _loc(example: float = 0.0, *, spill: bool = True) -> Param:
+    return number("loc", _LOC, example=example, spill=spill)
+
+
+def _scale(example: float = 1.0, *, spill: bool = True) -> Param:
+    return number("scale", _SCALE, example=example, spill=spill)
+
+
+def _shape(example: float = 1.5, *, spill: bool = True) -> Param:
+    return number("shape", _SHAPE, example=example, spill=spill)
+
+
+_EXAMPLE_DATA = [
+    [0.0123],
+    [-0.0089],
+    [0.0031],
+    [None],
+    [-0.0245],
+    [0.0067],
+    [0.0154],
+    [-0.0012],
+    [0.0078],
+    [-0.0301],
+    [0.0019],
+    [0.0042],
+]
+_EXAMPLE_PRICES = [[100.0], [101.2], [None], [99.7], [100.4], [102.9]]
+
+
+# =====================================================================================
+# Adapters: converted cell arguments -> core calls
+# =====================================================================================
+
+
+_cdf_core = distribution.cdf
+_sf_core = distribution.sf
+
+
+def _cdf(x: Any, loc: Any, scale: Any, shape: Any, upper: bool) -> Any:
+    return (_sf_core if upper else _cdf_core)(x, loc, scale, shape)
+
+
+def _whole(value: float, name: str, low: int, high: int) -> int:
+    if not math.isfinite(value) or value != math.floor(value):
+        raise SheetError("#NUM!", f"{name} must be a whole number, got {value:g}")
+    if not low <= value <= high:
+        raise SheetError("#NUM!", f"{name} must be between {low} and {high}, got {value:g}")
+    return int(value)
+
+
+_MAX_ROWS = 1_048_576  # rows of a worksheet
+
+
+def _rand(count: float, loc: float, scale: float, shape: float, seed: Any) -> np.ndarray:
+    n = _whole(count, "count", 1, _MAX_ROWS)
+    s = None if seed is None else _whole(seed, "seed", 0, 2**63 - 1)
+    return np.asarray(distribution.rvs(n, loc, scale, shape, seed=s), dtype=np.float64).reshape(
+        -1, 1
+    )
+
+
+def _fit_row(data: np.ndarray, method: str, header: bool) -> list[list[Any]]:
+    f = estimate.fit(data, method=method)
+    return [[f.loc, f.scale, f.shape]]
+
+
+def _fit_report(data: np.ndarray) -> list[list[Any]]:
+    values, _ = estimate.clean_sample(data)
+    blanks = _interior_blanks(data)
+    mle = estimate.fit(values, method="mle")
+    rows: list[list[Any]] = [
+        ["n used", values.size],
+        ["blanks skipped", blanks],
+        ["mean", estimate.sample_mean(values)],
+        ["median", estimate.sample_median(values)],
+        ["STDEV.S", estimate.sample_std(values)],
+        ["SKEW", estimate.sample_skewness(values)],
+        ["KURT", estimate.sample_excess_kurtosis(values)],
+        ["MLE loc", mle.loc],
+        ["MLE scale", mle.scale],
+        ["MLE shape", mle.shape],
+        ["MLE log-likelihood", mle.loglik],
+        ["MLE AIC", mle.aic],
+    ]
+    labels = ["loc", "scale", "shape", "log-likelihood", "AIC"]
+    try:
+        mom = estimate.fit(values, method="moments")
+    except ErrdistError as exc:
+        note = sheet_error(exc).text
+        rows += [[f"moments {label}", note] for label in labels]
+    else:
+        rows += [
+            [f"moments {label}", v]
+            for label, v in zip(
+                labels, (mom.loc, mom.scale, mom.shape, mom.loglik, mom.aic), strict=True
+            )
+        ]
+    rows.append(["MLE shape at search bound", bool(mle.at_bound)])
+    rows.append(["MLE note", mle.warning or "none"])
+    return rows
+
+
+def _interior_blanks(data: np.ndarray) -> int:
+    """Blank cells between the first and the last number (row-major)."""
+    flat = np.isnan(np.asarray(data, dtype=np.float64).ravel())
+    filled = np.flatnonzero(~flat)
+    if filled.size == 0:
+        return 0
+    return int(flat[filled[0] : filled[-1] + 1].sum())
+
+
+def _loglik(data: np.ndarray, loc: float, scale: float, shape: float) -> float:
+    return estimate.loglik(data, loc, scale, shape)
+
+
+def _returns(prices: np.ndarray, kind: str) -> np.ndarray:
+    rows, cols = prices.shape
+    if rows > 1 and cols > 1:
+        raise SheetError("#VALUE!", f"prices must be a single row or column, got {rows}x{cols}")
+    r = returns.returns_from_prices(prices.ravel(), kind=kind)  # type: ignore[arg-type]
+    return r.reshape(-1, 1) if cols == 1 else r.reshape(1, -1)
+
+
+def _version() -> str:
+    import numpy
+    import scipy
+
+    import errdist
+
+    try:
+        from importlib.metadata import version
+
+        xlwings_version = version("xlwings")
+    except Exception:  # not installed: the headless engine still works
+        xlwings_version = "not installed"
+    py = ".".join(map(str, sys.version_info[:3]))
+    return (
+        f"errdist {errdist.__version__}; numpy {numpy.__version__}; scipy {scipy.__version__}; "
+        f"xlwings {xlwings_version}; Python {py}"
+    )
+
+
+# =====================================================================================
+# The law
+# =====================================================================================
+
+add(
+    Entry(
+        name="ERRDIST_PDF",
+        core="errdist.distribution:pdf",
+        params=(
+            number("x", "Value(s) at which to evaluate the density.", example=0.5),
+            _loc(),
+            _scale(),
+            _shape(),
+        ),
+        result="spill",
+        summary="Density f(x) of the error (generalized normal) distribution. Any argument "
+        "may be a range: the result spills in the broadcast shape.",
+    )
+)
+
+add(
+    Entry(
+        name="ERRDIST_CDF",
+        core="errdist.distribution:cdf",
+        call=_cdf,
+        params=(
+            number("x", "Value(s) at which to evaluate the probability.", example=0.5),
+            _loc(),
+            _scale(),
+            _shape(),
+            flag(
+                "upper",
+                "FALSE or omitted: P(X <= x). TRUE: the upper tail P(X > x), accurate far "
+                "into that tail.",
+            ),
+        ),
+        result="spill",
+        summary="Cumulative probability P(X <= x) of the error distribution, or the upper "
+        "tail P(X > x) when upper is TRUE.",
+        notes="`upper` TRUE uses `errdist.distribution.sf`, so tail probabilities such as "
+        "1e-300 keep their digits instead of rounding 1 − F(x) to 0.",
+    )
+)
+
+add(
+    Entry(
+        name="ERRDIST_INV",
+        core="errdist.distribution:ppf",
+        params=(
+            number("p", "Probability(ies) strictly between 0 and 1.", example=0.99),
+            _loc(),
+            _scale(),
+            _shape(),
+        ),
+        result="spill",
+        summary="Quantile (inverse cumulative probability) of the error distribution: the x "
+        "with P(X <= x) = p.",
+    )
+)
+
+add(
+    Entry(
+        name="ERRDIST_RAND",
+        core="errdist.distribution:rvs",
+        call=_rand,
+        params=(
+            number("count", "How many draws: a whole number from 1 up.", example=5, spill=False),
+            _loc(spill=False),
+            _scale(spill=False),
+            _shape(spill=False),
+            number(
+                "seed",
+                "Optional whole-number seed: the same seed gives the same draws. Omit it for "
+                "fresh draws on every recalculation.",
+                example=20261202,
+                default=None,
+                spill=False,
+            ),
+        ),
+        result="column",
+        summary="A column of random draws from the error distribution; reproducible when a "
+        "seed is given.",
+        notes="Through the xlwings add-in the function is not volatile (xlwings declares "
+        "volatility per function, not per call): without a seed it draws again when its "
+        "arguments change or on a full recalculation (Ctrl+Alt+F9). The VBA module written by "
+        "`errdist vba` marks a call volatile only when the seed is omitted.",
+    )
+)
+
+add(
+    Entry(
+        name="ERRDIST_VARIANCE",
+        core="errdist.distribution:variance",
+        params=(_scale(), _shape()),
+        result="spill",
+        summary="Variance a^2 Gamma(3/b) / Gamma(1/b) of the error distribution with scale a "
+        "and shape b (not Value-at-Risk: that is ERRDIST_VAR).",
+    )
+)
+
+add(
+    Entry(
+        name="ERRDIST_KURT",
+        core="errdist.distribution:excess_kurtosis",
+        params=(_shape(),),
+        result="spill",
+        summary="Excess kurtosis Gamma(5/b) Gamma(1/b) / Gamma(3/b)^2 - 3 of the error "
+        "distribution with shape b (0 for the normal law, 3 for Laplace).",
+    )
+)
+
+add(
+    Entry(
+        name="ERRDIST_SOLVE_SHAPE",
+        core="errdist.estimate:solve_shape",
+        params=(
+            number(
+                "excess_kurtosis",
+                "Excess kurtosis (as KURT gives it); must be above -1.2.",
+                example=1.2,
+            ),
+        ),
+        result="spill",
+        vectorized=False,
+        summary="The shape b whose excess kurtosis equals the given value (method of "
+        "moments). Any value above -1.2 has one.",
+    )
+)
+
+add(
+    Entry(
+        name="ERRDIST_SOLVE_SCALE",
+        core="errdist.estimate:solve_scale",
+        params=(
+            number("sd", "Standard deviation (> 0), e.g. from STDEV.S.", example=0.012),
+            _shape(),
+        ),
+        result="spill",
+        vectorized=False,
+        summary="The scale a giving standard deviation sd for shape b: "
+        "a = sd sqrt(Gamma(1/b) / Gamma(3/b)).",
+    )
+)
+
+add(
+    Entry(
+        name="ERRDIST_FIT",
+        core="errdist.estimate:fit",
+        call=_fit_row,
+        params=(
+            data_range("data", _DATA, example=_EXAMPLE_DATA),
+            text(
+                "method",
+                'Estimator: "mle" (maximum likelihood, default) or "moments" (mean, STDEV.S '
+                "and KURT matched).",
+                choices=("mle", "moments"),
+                default="mle",
+            ),
+            flag("header", "TRUE adds a row of labels above the numbers."),
+        ),
+        result="table",
+        header=("loc", "scale", "shape"),
+        call_in_wizard=False,
+        summary="Fits the error distribution to a data range; spills loc, scale and shape in "
+        "a row.",
+    )
+)
+
+add(
+    Entry(
+        name="ERRDIST_FIT_REPORT",
+        core="errdist.estimate:fit",
+        call=_fit_report,
+        params=(data_range("data", _DATA, example=_EXAMPLE_DATA),),
+        result="table",
+        call_in_wizard=False,
+        summary="A two-column labelled table: sample statistics, both fits (MLE and moments) "
+        "with log-likelihood and AIC, and whether the MLE shape hit its search bound.",
+        notes="Rows: n used; blanks skipped (blank cells between the first and last number); "
+        "mean; median; STDEV.S; SKEW; KURT; MLE loc, scale, shape, log-likelihood, AIC; the "
+        "same five for the moments fit; MLE shape at search bound (TRUE/FALSE); MLE note. "
+        "When the moments fit is impossible (KURT <= -1.2) its five rows show the reason "
+        "instead of numbers and the rest of the table stands.",
+    )
+)
+
+add(
+    Entry(
+        name="ERRDIST_LOGLIK",
+        core="errdist.estimate:loglik",
+        call=_loglik,
+        params=(data_range("data", _DATA, example=_EXAMPLE_DATA), _loc(), _scale(0.01), _shape()),
+        result="spill",
+        vectorized=False,
+        summary="Log-likelihood sum of ln f(x) of a data range under the error distribution; "
+        "ranges of loc, scale or shape spill a profile.",
+    )
+)
+
+add(
+    Entry(
+        name="ERRDIST_RETURNS",
+        core="errdist.returns:returns_from_prices",
+        call=_returns,
+        params=(
+            data_range(
+                "prices",
+                "A column (or row) of prices > 0 in time order. A blank price leaves both "
+                "returns that touch it blank.",
+                example=_EXAMPLE_PRICES,
+            ),
+            text(
+                "kind",
+                '"log" (default): ln(p_t / p_t-1); "simple": p_t / p_t-1 - 1.',
+                choices=("log", "simple"),
+                default="log",
+            ),
+        ),
+        result="column",
+        summary="Returns from a column of prices, one row shorter and aligned with it; log "
+        'returns unless kind is "simple".',
+    )
+)
+
+add(
+    Entry(
+        name="ERRDIST_VERSION",
+        core=_version,
+        params=(),
+        result="scalar",
+        summary="The versions of errdist, numpy, scipy, xlwings and Python in use, as one "
+        "text (for audit trails).",
+    )
+)
+
+
+# =====================================================================================
+# Risk (entries added by the risk helpers, one block each, below this line)
+# =====================================================================================
