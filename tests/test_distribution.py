@@ -110,7 +110,8 @@ def test_far_tail_cdf_against_mpmath_and_naive_fails(shape: float, k: float) -> 
     # The textbook construction 1/2 + 1/2 sign(x) P(1/b, z) cancels to 0 here (Nadarajah eq. 3
     # evaluated literally in double precision).
     naive = 0.5 - 0.5 * sc.gammainc(1.0 / shape, k**shape)
-    assert naive == 0.0 or abs(naive - float(ref)) / float(ref) > 1e-3
+    assert naive == 0.0
+    assert ref < mp.mpf("1e-20")
 
 
 @pytest.mark.parametrize("shape", [0.5, 1.0, 2.0, 8.0])
@@ -202,15 +203,21 @@ def test_laplace_special_case() -> None:
 
 
 # ------------------------------------------------------------------ moments
-@pytest.mark.parametrize("shape", [0.05, 0.1, 0.3, 0.5, 1.0, 1.5, 1.99, 2.01, 3.0, 8.0, 19.9, 20.0, 50.0,
+@pytest.mark.parametrize("shape", [0.003, 0.01, 0.05, 0.0999, 0.1, 0.3, 0.5, 1.0, 1.5, 1.99, 2.01, 3.0, 8.0, 19.9, 20.0, 50.0,
                                    1e3, 1e6])  # fmt: skip
 def test_variance_kurtosis_against_mpmath(shape: float) -> None:
     # Source: Nadarajah (2005) eq. 6 and 8, evaluated in mpmath at 40 digits.
     b = mp.mpf(shape)
     var_ref = mp.mpf("1.7") ** 2 * mp.gamma(3 / b) / mp.gamma(1 / b)
-    assert rel(D.variance(1.7, shape), var_ref) < 2e-14
+    if var_ref > mp.mpf(np.finfo(float).max):
+        assert D.variance(1.7, shape) == math.inf  # beyond the double range: inf, no warning
+    else:
+        assert rel(D.variance(1.7, shape), var_ref) < 2e-14 + 1e-16 / shape
     k_ref = mp_kurtosis(shape)
-    assert rel(D.excess_kurtosis(shape), k_ref) < 1e-13
+    # exp(L) with L ~ 1.5/b near overflow: a double result can only be good to ~ L * eps;
+    # near b = 2 the kurtosis crosses 0, so allow 1e-15 absolute there
+    k = D.excess_kurtosis(shape)
+    assert abs(k - float(k_ref)) <= (1e-14 + 5e-16 / shape) * abs(float(k_ref)) + 1e-15
 
 
 @pytest.mark.parametrize("shape", [0.3, 0.7, 1.0, 2.0, 4.0, 10.0])
