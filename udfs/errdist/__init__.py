@@ -37,7 +37,16 @@ from errdist.estimate import (  # noqa: E402, F401
     solve_shape,
 )
 
-# --- risk measures (owner: risk) ---
+# --- risk measures and backtesting (owner: risk) ---
+# isort: split
+from errdist.backtest import (  # noqa: E402, F401
+    BacktestResult,
+    backtest,
+    christoffersen,
+    kupiec,
+    rolling_var,
+    traffic_light,
+)
 from errdist.risk import expected_shortfall, value_at_risk  # noqa: E402, F401
 
 # --- model checking: goodness of fit, rival laws, chart points (owner: model-checking) ---

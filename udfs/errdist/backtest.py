@@ -1,0 +1,570 @@
+r"""Backtesting Value-at-Risk forecasts: coverage tests, traffic-light zones, rolling forecasts.
+
+Conventions
+-----------
+* An **exception** (a "hit") is a day whose loss exceeds the VaR forecast for that day:
+  ``return < -VaR`` (strictly). VaR is a positive loss, as in :mod:`errdist.risk`.
+* ``confidence`` is the VaR confidence as a fraction (0.99); the exception probability under a
+  correct model is :math:`p = 1 - c`.
+* Likelihood-ratio terms use :math:`0 \cdot \ln 0 = 0` (``scipy.special.xlogy``), so zero
+  exceptions, all exceptions and transition tables with empty cells are all handled.
+
+Tests
+-----
+Kupiec (1995) proportion of failures, :math:`x` exceptions in :math:`n` days,
+:math:`\hat p = x/n`:
+
+.. math::
+
+    LR_{POF} = -2\ln\frac{(1-p)^{n-x} p^x}{(1-\hat p)^{n-x}\hat p^x} \sim \chi^2(1).
+
+Christoffersen (1998) independence, with :math:`n_{ij}` the number of days in state :math:`j`
+following a day in state :math:`i` (1 = exception), :math:`\hat\pi_{01} = n_{01}/(n_{00}+n_{01})`,
+:math:`\hat\pi_{11} = n_{11}/(n_{10}+n_{11})`, :math:`\hat\pi = (n_{01}+n_{11})/(n-1)`:
+
+.. math::
+
+    LR_{IND} = -2\ln\frac{(1-\hat\pi)^{n_{00}+n_{10}}\hat\pi^{n_{01}+n_{11}}}
+        {(1-\hat\pi_{01})^{n_{00}}\hat\pi_{01}^{n_{01}}(1-\hat\pi_{11})^{n_{10}}\hat\pi_{11}^{n_{11}}}
+        \sim \chi^2(1),
+    \qquad LR_{CC} = LR_{POF} + LR_{IND} \sim \chi^2(2).
+
+(:math:`LR_{POF}` uses all :math:`n` days, :math:`LR_{IND}` the :math:`n-1` transitions — the
+usual way of adding them, common practice, no source.)
+
+Sources: Kupiec, P. (1995) "Techniques for verifying the accuracy of risk measurement models",
+J. Derivatives 3(2):73-84. Christoffersen, P. (1998) "Evaluating interval forecasts",
+International Economic Review 39(4):841-862. Basel Committee on Banking Supervision (1996)
+"Supervisory framework for the use of 'backtesting' in conjunction with the internal models
+approach to market risk capital requirements" (traffic-light zones; plus factors from memory).
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+from typing import Any
+
+import numpy as np
+from numpy.typing import ArrayLike, NDArray
+from scipy import stats
+from scipy.special import xlogy
+
+from errdist.errors import DomainError, InputTypeError, InsufficientDataError
+from errdist.estimate import fit
+from errdist.mle import _mle_sorted
+from errdist.risk import value_at_risk
+
+__all__ = [
+    "BCBS_PLUS_FACTORS",
+    "BacktestResult",
+    "ChristoffersenResult",
+    "LRTest",
+    "TrafficLight",
+    "backtest",
+    "christoffersen",
+    "kupiec",
+    "rolling_var",
+    "traffic_light",
+]
+
+#: Green / yellow boundaries of the cumulative binomial probability (BCBS 1996): green while
+#: P(X <= exceptions) < 95 %, yellow while < 99.99 %, red from 99.99 %.
+GREEN_BELOW = 0.95
+YELLOW_BELOW = 0.9999
+
+#: BCBS (1996) plus factors for 250 observations at 99 % (from memory): exceptions -> factor.
+#: Green (0-4) adds 0.00, red (10 or more) adds 1.00.
+BCBS_PLUS_FACTORS: dict[int, float] = {5: 0.40, 6: 0.50, 7: 0.65, 8: 0.75, 9: 0.85}
+
+
+# --------------------------------------------------------------------------------------------
+# results
+# --------------------------------------------------------------------------------------------
+@dataclass(frozen=True)
+class LRTest:
+    """A likelihood-ratio statistic with its chi-squared p-value."""
+
+    statistic: float
+    pvalue: float
+    df: int
+
+
+@dataclass(frozen=True)
+class ChristoffersenResult:
+    """Christoffersen's tests: unconditional coverage (Kupiec POF), independence, both."""
+
+    pof: LRTest
+    independence: LRTest
+    conditional_coverage: LRTest
+    n00: int
+    n01: int
+    n10: int
+    n11: int
+
+
+@dataclass(frozen=True)
+class TrafficLight:
+    """Basel traffic-light zone of an exception count.
+
+    ``plus_factor`` is the BCBS (1996) table value for 250 observations at 99 % (from memory);
+    it is ``None`` for other sample sizes or confidences, where the table does not apply.
+    """
+
+    zone: str
+    plus_factor: float | None
+    cumulative_probability: float
+    exceptions: int
+    observations: int
+
+
+@dataclass(frozen=True)
+class BacktestResult:
+    """Everything :func:`backtest` measures.
+
+    Attributes
+    ----------
+    observations : int
+        Pairs (return, VaR forecast) used.
+    exceptions : int
+        Days with ``return < -VaR``.
+    expected : float
+        ``observations * (1 - confidence)``.
+    dropped : int
+        Pairs dropped because the return or the forecast was blank / NaN.
+    pof, independence, conditional_coverage : LRTest
+        Kupiec's and Christoffersen's likelihood-ratio tests.
+    zone, plus_factor, cumulative_probability
+        The traffic light (see :class:`TrafficLight`).
+    hits : numpy.ndarray
+        The exception indicator (0/1) of the pairs used, in order.
+    """
+
+    observations: int
+    exceptions: int
+    expected: float
+    dropped: int
+    confidence: float
+    pof: LRTest
+    independence: LRTest
+    conditional_coverage: LRTest
+    zone: str
+    plus_factor: float | None
+    cumulative_probability: float
+    hits: NDArray[np.int8] = field(repr=False)
+
+    def rows(self) -> list[tuple[str, float | int | str | None]]:
+        """The result as (label, value) rows, in the order of the worksheet table."""
+        return [
+            ("observations", self.observations),
+            ("exceptions", self.exceptions),
+            ("expected exceptions", self.expected),
+            ("pairs dropped", self.dropped),
+            ("LR POF (Kupiec)", self.pof.statistic),
+            ("p-value POF", self.pof.pvalue),
+            ("LR IND (Christoffersen)", self.independence.statistic),
+            ("p-value IND", self.independence.pvalue),
+            ("LR CC (Christoffersen)", self.conditional_coverage.statistic),
+            ("p-value CC", self.conditional_coverage.pvalue),
+            ("zone", self.zone),
+            ("plus factor", self.plus_factor),
+        ]
+
+
+# --------------------------------------------------------------------------------------------
+# validation helpers
+# --------------------------------------------------------------------------------------------
+def _fmt(value: Any) -> str:
+    try:
+        f = float(value)
+    except (TypeError, ValueError):
+        return repr(value)
+    if f.is_integer() and abs(f) < 1e16:
+        return str(int(f))
+    return repr(f)
+
+
+def _confidence(confidence: Any) -> float:
+    if isinstance(confidence, (str, bytes, bool)) or confidence is None:
+        raise InputTypeError(f"confidence must be a number, got {confidence!r}")
+    try:
+        c = float(confidence)
+    except (TypeError, ValueError) as exc:
+        raise InputTypeError(f"confidence must be a single number, got {confidence!r}") from exc
+    if not 0.0 < c < 1.0:
+        raise DomainError(f"confidence must be a fraction in (0, 1) such as 0.99, got {_fmt(c)}")
+    return c
+
+
+def _count(name: str, value: Any, minimum: int = 0) -> int:
+    if isinstance(value, (str, bytes, bool)) or value is None:
+        raise InputTypeError(f"{name} must be a whole number, got {value!r}")
+    try:
+        f = float(value)
+    except (TypeError, ValueError) as exc:
+        raise InputTypeError(f"{name} must be a whole number, got {value!r}") from exc
+    if not (math.isfinite(f) and f.is_integer()):
+        raise DomainError(f"{name} must be a whole number, got {_fmt(f)}")
+    if f < minimum:
+        raise DomainError(f"{name} must be >= {minimum}, got {_fmt(f)}")
+    return int(f)
+
+
+def _numeric_column(name: str, values: Any) -> NDArray[np.float64]:
+    """Values as a 1-D float array (row-major); None -> NaN; text -> InputTypeError."""
+    if isinstance(values, (str, bytes)):
+        raise InputTypeError(f"{name} must be numbers, got text {values!r}")
+    arr = np.asarray(values, dtype=object) if not isinstance(values, np.ndarray) else values
+    if arr.dtype == object:
+        flat = arr.ravel()
+        out = np.empty(flat.size)
+        for i, v in enumerate(flat):
+            if v is None:
+                out[i] = math.nan
+            elif isinstance(v, (str, bytes, bool)):
+                raise InputTypeError(f"{name} must be numbers, got {v!r} at position {i + 1}")
+            else:
+                try:
+                    out[i] = float(v)
+                except (TypeError, ValueError) as exc:
+                    raise InputTypeError(
+                        f"{name} must be numbers, got {v!r} at position {i + 1}"
+                    ) from exc
+        return out
+    try:
+        out = np.asarray(arr, dtype=np.float64).ravel()
+    except (TypeError, ValueError) as exc:
+        raise InputTypeError(f"{name} must be numbers") from exc
+    return out
+
+
+def _no_infinity(name: str, arr: NDArray[np.float64]) -> None:
+    bad = np.isinf(arr)
+    if np.any(bad):
+        i = int(np.argmax(bad))
+        raise DomainError(f"{name} must be finite, got {_fmt(arr[i])} at position {i + 1}")
+
+
+def _chi2_sf(stat: float, df: int) -> float:
+    return float(stats.chi2.sf(max(stat, 0.0), df))
+
+
+# --------------------------------------------------------------------------------------------
+# tests
+# --------------------------------------------------------------------------------------------
+def _lr_pof(x: int, n: int, p: float) -> float:
+    phat = x / n
+    restricted = xlogy(n - x, 1.0 - p) + xlogy(x, p)
+    free = xlogy(n - x, 1.0 - phat) + xlogy(x, phat)
+    return max(float(-2.0 * (restricted - free)), 0.0)
+
+
+def kupiec(exceptions: int, observations: int, confidence: float) -> LRTest:
+    r"""Kupiec's proportion-of-failures (POF) likelihood-ratio test.
+
+    .. math::
+
+        LR_{POF} = -2\left[(n-x)\ln(1-p) + x\ln p - (n-x)\ln(1-\hat p) - x\ln\hat p\right],
+        \quad \hat p = x/n,\ p = 1 - c,
+
+    asymptotically :math:`\chi^2(1)` under a correct VaR model (Kupiec 1995, J. Derivatives
+    3(2):73-84). :math:`0\ln 0 = 0`.
+
+    Parameters
+    ----------
+    exceptions : int
+        Number of exceptions :math:`x`, ``0 <= x <= observations``.
+    observations : int
+        Number of days :math:`n \ge 1`.
+    confidence : float
+        VaR confidence in (0, 1).
+
+    Returns
+    -------
+    LRTest
+        ``statistic``, ``pvalue`` (chi-squared, 1 degree of freedom), ``df = 1``.
+    """
+    c = _confidence(confidence)
+    n = _count("observations", observations, 1)
+    x = _count("exceptions", exceptions, 0)
+    if x > n:
+        raise DomainError(f"exceptions ({x}) cannot exceed observations ({n})")
+    stat = _lr_pof(x, n, 1.0 - c)
+    return LRTest(stat, _chi2_sf(stat, 1), 1)
+
+
+def _hits_array(hits: Any) -> NDArray[np.int8]:
+    arr = _numeric_column("hits", hits)
+    if np.any(np.isnan(arr)):
+        i = int(np.argmax(np.isnan(arr)))
+        raise InputTypeError(f"hits must be 0 or 1, got a blank at position {i + 1}")
+    bad = (arr != 0.0) & (arr != 1.0)
+    if np.any(bad):
+        i = int(np.argmax(bad))
+        raise DomainError(f"hits must be 0 or 1, got {_fmt(arr[i])} at position {i + 1}")
+    if arr.size < 2:
+        raise InsufficientDataError(
+            f"the independence test needs at least 2 days of hits, got {arr.size}"
+        )
+    return arr.astype(np.int8)
+
+
+def christoffersen(hits: ArrayLike, confidence: float) -> ChristoffersenResult:
+    r"""Christoffersen's independence and conditional-coverage likelihood-ratio tests.
+
+    First-order Markov alternative: the hit probability may depend on whether the previous
+    day was a hit. With transition counts :math:`n_{ij}` (state :math:`i` then :math:`j`) the
+    independence statistic :math:`LR_{IND}` (formula in the module docstring) is
+    :math:`\chi^2(1)`; :math:`LR_{CC} = LR_{POF} + LR_{IND}` is :math:`\chi^2(2)`
+    (Christoffersen 1998, International Economic Review 39(4):841-862).
+
+    Parameters
+    ----------
+    hits : array_like of 0/1
+        Exception indicator per day, in time order (at least 2 days).
+    confidence : float
+        VaR confidence in (0, 1).
+
+    Returns
+    -------
+    ChristoffersenResult
+        ``pof`` (Kupiec, on all days), ``independence``, ``conditional_coverage`` and the
+        transition counts ``n00, n01, n10, n11``.
+    """
+    c = _confidence(confidence)
+    h = _hits_array(hits)
+    prev, curr = h[:-1], h[1:]
+    n01 = int(np.sum((prev == 0) & (curr == 1)))
+    n00 = int(np.sum((prev == 0) & (curr == 0)))
+    n11 = int(np.sum((prev == 1) & (curr == 1)))
+    n10 = int(np.sum((prev == 1) & (curr == 0)))
+    pof_stat = _lr_pof(int(h.sum()), h.size, 1.0 - c)
+    ind_stat = _lr_ind(n00, n01, n10, n11)
+    cc_stat = pof_stat + ind_stat
+    return ChristoffersenResult(
+        pof=LRTest(pof_stat, _chi2_sf(pof_stat, 1), 1),
+        independence=LRTest(ind_stat, _chi2_sf(ind_stat, 1), 1),
+        conditional_coverage=LRTest(cc_stat, _chi2_sf(cc_stat, 2), 2),
+        n00=n00,
+        n01=n01,
+        n10=n10,
+        n11=n11,
+    )
+
+
+def _lr_ind(n00: int, n01: int, n10: int, n11: int) -> float:
+    total = n00 + n01 + n10 + n11
+    pi = (n01 + n11) / total
+    pi01 = n01 / (n00 + n01) if n00 + n01 > 0 else 0.0
+    pi11 = n11 / (n10 + n11) if n10 + n11 > 0 else 0.0
+    restricted = xlogy(n00 + n10, 1.0 - pi) + xlogy(n01 + n11, pi)
+    free = xlogy(n00, 1.0 - pi01) + xlogy(n01, pi01) + xlogy(n10, 1.0 - pi11) + xlogy(n11, pi11)
+    return max(float(-2.0 * (restricted - free)), 0.0)
+
+
+def traffic_light(
+    exceptions: int, observations: int = 250, confidence: float = 0.99
+) -> TrafficLight:
+    r"""Basel traffic-light zone of an exception count (BCBS 1996).
+
+    With :math:`X \sim \mathrm{Binomial}(n, 1-c)` and :math:`P = P(X \le x)`:
+    green while :math:`P < 95\%`, yellow while :math:`P < 99.99\%`, red from
+    :math:`99.99\%`. For 250 observations at 99 % this gives green 0-4, yellow 5-9, red 10 or
+    more, with the plus factors (from memory) 0.00 in green, 0.40, 0.50, 0.65, 0.75, 0.85 for
+    5-9 exceptions and 1.00 in red. Other sizes: the zone follows the same cumulative rule;
+    ``plus_factor`` is ``None`` (the table is defined for 250 days at 99 % only).
+
+    Parameters
+    ----------
+    exceptions : int
+        Number of exceptions, ``0 <= exceptions <= observations``.
+    observations : int, default 250
+        Number of days.
+    confidence : float, default 0.99
+        VaR confidence in (0, 1).
+
+    Returns
+    -------
+    TrafficLight
+    """
+    c = _confidence(confidence)
+    n = _count("observations", observations, 1)
+    x = _count("exceptions", exceptions, 0)
+    if x > n:
+        raise DomainError(f"exceptions ({x}) cannot exceed observations ({n})")
+    cum = float(stats.binom.cdf(x, n, 1.0 - c))
+    zone = "green" if cum < GREEN_BELOW else ("yellow" if cum < YELLOW_BELOW else "red")
+    plus: float | None = None
+    if n == 250 and abs(c - 0.99) < 1e-12:
+        plus = 0.0 if zone == "green" else (1.0 if zone == "red" else BCBS_PLUS_FACTORS[x])
+    return TrafficLight(zone, plus, cum, x, n)
+
+
+def backtest(returns: ArrayLike, var_forecasts: ArrayLike, confidence: float) -> BacktestResult:
+    """Backtest a column of VaR forecasts against the realised returns.
+
+    Parameters
+    ----------
+    returns : array_like
+        Realised returns, in time order (1-D, or a 2-D range read row-major).
+    var_forecasts : array_like
+        The VaR forecast for each day (positive loss, same units), same number of cells.
+    confidence : float
+        Confidence of the forecasts, in (0, 1).
+
+    Returns
+    -------
+    BacktestResult
+        Counts, the Kupiec and Christoffersen tests, the traffic light. Pairs where either
+        value is blank / NaN are dropped and counted (``dropped``); the remaining pairs are
+        taken as consecutive days for the independence test. An exception is
+        ``return < -VaR``.
+
+    Raises
+    ------
+    InputTypeError
+        Text in either column, or columns of different lengths.
+    DomainError
+        ±inf in either column; ``confidence`` outside (0, 1).
+    InsufficientDataError
+        Fewer than 2 complete pairs.
+    """
+    c = _confidence(confidence)
+    r = _numeric_column("returns", returns)
+    v = _numeric_column("var_forecasts", var_forecasts)
+    if r.size != v.size:
+        raise InputTypeError(
+            f"returns and var_forecasts must have the same number of cells, got {r.size} and {v.size}"
+        )
+    _no_infinity("returns", r)
+    _no_infinity("var_forecasts", v)
+    keep = ~(np.isnan(r) | np.isnan(v))
+    dropped = int(r.size - keep.sum())
+    r, v = r[keep], v[keep]
+    n = int(r.size)
+    if n < 2:
+        raise InsufficientDataError(
+            f"backtest needs at least 2 complete (return, VaR) pairs, got {n} ({dropped} dropped)"
+        )
+    hits = (r < -v).astype(np.int8)
+    x = int(hits.sum())
+    ch = christoffersen(hits, c)
+    light = traffic_light(x, n, c)
+    return BacktestResult(
+        observations=n,
+        exceptions=x,
+        expected=n * (1.0 - c),
+        dropped=dropped,
+        confidence=c,
+        pof=ch.pof,
+        independence=ch.independence,
+        conditional_coverage=ch.conditional_coverage,
+        zone=light.zone,
+        plus_factor=light.plus_factor,
+        cumulative_probability=light.cumulative_probability,
+        hits=hits,
+    )
+
+
+# --------------------------------------------------------------------------------------------
+# rolling forecasts
+# --------------------------------------------------------------------------------------------
+ROLLING_METHODS = ("mle", "moments")
+
+
+def rolling_var(
+    returns: ArrayLike, window: int, confidence: float, method: str = "mle"
+) -> NDArray[np.float64]:
+    r"""One-day VaR forecasts from a rolling fit, aligned with the returns.
+
+    For each day :math:`t \ge w` (0-based) the law is fitted to ``returns[t-w:t]`` only — the
+    :math:`w` days *before* :math:`t`, never day :math:`t` or later — and
+    ``out[t] = value_at_risk(confidence, loc, scale, shape)``. The first ``window`` positions
+    are NaN (no forecast), so the result feeds :func:`backtest` directly together with the
+    same returns column.
+
+    Blank / NaN returns inside a window are dropped from that window's fit (the window still
+    spans ``window`` positions, so it holds fewer numbers); a window needs at least 4 numbers.
+    A NaN return at day :math:`t` does not stop the forecast for day :math:`t`.
+
+    ``method="mle"`` runs the exact maximum-likelihood fit (:func:`errdist.estimate.fit`'s
+    engine), started from the previous window's shape; the start only changes where the
+    search begins, the result is still the exact maximum. ``"moments"`` uses the
+    spreadsheet-statistics fit.
+
+    Parameters
+    ----------
+    returns : array_like
+        Returns in time order: 1-D, or a one-column / one-row 2-D range.
+    window : int
+        Number of past days per fit, >= 4 and smaller than the number of returns.
+    confidence : float
+        VaR confidence in (0, 1).
+    method : {"mle", "moments"}, default "mle"
+
+    Returns
+    -------
+    numpy.ndarray
+        Same shape as ``returns``; NaN in the first ``window`` positions.
+
+    Raises
+    ------
+    InsufficientDataError
+        ``window`` not smaller than the number of returns; a window with fewer than 4
+        numbers or no spread (the message names the day).
+    DomainError
+        Bad ``window`` / ``confidence``; ±inf returns; a moments fit impossible (kurtosis
+        <= -1.2) in some window.
+    InputTypeError
+        Text in the returns, an unknown method, a 2-D range with several rows and columns.
+    """
+    c = _confidence(confidence)
+    if not isinstance(method, str) or method.strip().lower() not in ROLLING_METHODS:
+        raise InputTypeError(f'method must be "mle" or "moments", got {method!r}')
+    method = method.strip().lower()
+    in_shape = np.shape(returns)
+    if len(in_shape) > 2 or (len(in_shape) == 2 and min(in_shape) > 1):
+        raise InputTypeError(
+            f"returns must be one column or one row, got a range of shape {in_shape}"
+        )
+    r = _numeric_column("returns", returns)
+    _no_infinity("returns", r)
+    w = _count("window", window, 4)
+    n = r.size
+    if w >= n:
+        raise InsufficientDataError(
+            f"window ({w}) must be smaller than the number of returns ({n})"
+        )
+    locs = np.empty(n - w)
+    scales = np.empty(n - w)
+    shapes = np.empty(n - w)
+    finite = ~np.isnan(r)
+    start: float | None = None
+    for t in range(w, n):
+        seg = r[t - w : t]
+        if not finite[t - w : t].all():
+            seg = seg[finite[t - w : t]]
+        if seg.size < 4:
+            raise InsufficientDataError(
+                f"the {w}-day window before day {t + 1} holds only {seg.size} numbers; "
+                "at least 4 are needed"
+            )
+        if method == "mle":
+            xs = np.sort(seg)
+            if xs[0] == xs[-1]:
+                raise InsufficientDataError(
+                    f"the returns in the window before day {t + 1} are all equal: no spread to fit"
+                )
+            m, a, b, _ = _mle_sorted(xs, start)
+            start = b
+        else:
+            try:
+                f = fit(seg, "moments")
+            except ValueError as exc:
+                raise type(exc)(f"window before day {t + 1}: {exc}") from exc
+            m, a, b = f.loc, f.scale, f.shape
+        k = t - w
+        locs[k], scales[k], shapes[k] = m, a, b
+    out = np.full(n, math.nan)
+    out[w:] = value_at_risk(c, locs, scales, shapes)
+    return out.reshape(in_shape) if len(in_shape) == 2 else out
