@@ -319,6 +319,12 @@ def test_input_type_errors() -> None:
         D.cdf("abc")
     with pytest.raises(InputTypeError, match="scale must be numeric"):
         D.pdf(0.0, 0.0, "wide")
+    with pytest.raises(InputTypeError, match="x must be numeric, got None"):
+        D.pdf(None)  # type: ignore[arg-type]
+    with pytest.raises(InputTypeError, match="x must be numeric, got None at position 1"):
+        D.cdf([0.5, None, 1.0])
+    with pytest.raises(InputTypeError, match="p must be numeric, got 'a' at position 0"):
+        D.ppf(["a", 0.5])
     with pytest.raises(InputTypeError, match="seed must be"):
         D.rvs(2, seed="x")  # type: ignore[arg-type]
 

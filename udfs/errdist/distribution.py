@@ -98,6 +98,19 @@ def _as_float_array(name: str, value: Any) -> NDArray[np.float64]:
     """Convert ``value`` to a float64 array or raise :class:`InputTypeError`."""
     if isinstance(value, (str, bytes)):
         raise InputTypeError(f"{name} must be numeric, got text {value!r}")
+    if value is None:
+        raise InputTypeError(f"{name} must be numeric, got None")
+    if isinstance(value, (list, tuple)):
+        raw = np.asarray(value)
+        if raw.dtype.kind not in "biuf":  # None or text inside a list: no silent NaN
+            for index, item in np.ndenumerate(raw):
+                if isinstance(item, np.generic):
+                    item = item.item()
+                if item is None or isinstance(item, (str, bytes)):
+                    where = index[0] if raw.ndim == 1 else index
+                    raise InputTypeError(
+                        f"{name} must be numeric, got {item!r} at position {where}"
+                    )
     try:
         return np.asarray(value, dtype=np.float64)
     except (TypeError, ValueError) as exc:
