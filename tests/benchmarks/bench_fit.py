@@ -1,0 +1,119 @@
+"""Benchmark: errdist.fit (exact MLE) against scipy.stats.gennorm.fit, side by side.
+
+Run:  python tests/benchmarks/bench_fit.py  [--quick]
+
+For each case the same seeded sample (scipy.stats.gennorm.rvs) is fitted alternately by
+both, several times; the best and the median wall time are printed with the ratio
+scipy / errdist, and the two log-likelihoods are compared (errdist must not be lower).
+Targets: n = 100,000 (shape 0.9) ratio >= 15; n = 2,500 ratio >= 5; n = 250 about 1-2 ms.
+"""
+
+from __future__ import annotations
+
+import argparse
+import platform
+import statistics
+import sys
+import time
+from collections.abc import Callable
+
+import numpy as np
+import scipy
+from scipy import stats
+
+import errdist
+from errdist.estimate import fit
+
+
+def _timed(func: Callable[[], object]) -> tuple[float, object]:
+    t0 = time.perf_counter()
+    out = func()
+    return time.perf_counter() - t0, out
+
+
+def bench(n: int, shape: float, repeats: int, seed: int = 20261202) -> dict[str, float]:
+    """Fit one seeded sample ``repeats`` times with each library, interleaved."""
+    x = stats.gennorm.rvs(shape, loc=0.0003, scale=0.01, size=n, random_state=seed)
+    ours: list[float] = []
+    theirs: list[float] = []
+    f = fit(x)  # warm-up (imports, caches)
+    p = stats.gennorm.fit(x)
+    for _ in range(repeats):
+        dt, f = _timed(lambda: fit(x))
+        ours.append(dt)
+        dt, p = _timed(lambda: stats.gennorm.fit(x))
+        theirs.append(dt)
+    ll_scipy = float(stats.gennorm.logpdf(x, *p).sum())
+    return {
+        "n": n,
+        "shape": shape,
+        "ours_best": min(ours),
+        "ours_median": statistics.median(ours),
+        "scipy_best": min(theirs),
+        "scipy_median": statistics.median(theirs),
+        "ll_ours": f.loglik,
+        "ll_scipy": ll_scipy,
+        "b_ours": f.shape,
+        "b_scipy": float(p[0]),
+    }
+
+
+def bench_repeated(n: int, shape: float, fits: int, seed: int = 7) -> tuple[float, float]:
+    """Mean time per fit over ``fits`` different samples (rolling-window style use)."""
+    rng = np.random.default_rng(seed)
+    xs = stats.gennorm.rvs(shape, scale=0.01, size=(fits, n), random_state=rng)
+    t0 = time.perf_counter()
+    prev = None
+    for row in xs:
+        prev = fit(row, start=prev)
+    ours = (time.perf_counter() - t0) / fits
+    k = max(1, fits // 10)
+    t0 = time.perf_counter()
+    for row in xs[:k]:
+        stats.gennorm.fit(row)
+    theirs = (time.perf_counter() - t0) / k
+    return ours, theirs
+
+
+def main(argv: list[str] | None = None) -> int:
+    parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    parser.add_argument("--quick", action="store_true", help="fewer repeats")
+    args = parser.parse_args(argv)
+    q = 0.4 if args.quick else 1.0
+    print(
+        f"errdist {errdist.__version__}, numpy {np.__version__}, scipy {scipy.__version__}, "
+        f"Python {platform.python_version()}, {platform.machine()}"
+    )
+    header = (
+        f"{'n':>7} {'shape':>5} {'errdist ms':>16} {'scipy ms':>16} {'ratio':>11} "
+        f"{'loglik errdist - scipy':>23} {'b errdist':>9} {'b scipy':>9}"
+    )
+    print(header)
+    print("-" * len(header))
+    cases = [
+        (100_000, 0.9, 7),
+        (100_000, 1.5, 5),
+        (2_500, 0.9, 40),
+        (2_500, 1.5, 40),
+        (250, 0.9, 60),
+    ]
+    for n, shape, reps in cases:
+        r = bench(n, shape, max(3, int(reps * q)))
+        print(
+            f"{n:>7} {shape:>5} {r['ours_best'] * 1e3:>7.2f} ({r['ours_median'] * 1e3:>6.2f}) "
+            f"{r['scipy_best'] * 1e3:>7.2f} ({r['scipy_median'] * 1e3:>6.2f}) "
+            f"{r['scipy_best'] / r['ours_best']:>5.1f} ({r['scipy_median'] / r['ours_median']:>4.1f}) "
+            f"{r['ll_ours'] - r['ll_scipy']:>23.3e} {r['b_ours']:>9.4f} {r['b_scipy']:>9.4f}"
+        )
+    print("times: best (median); ratio = scipy / errdist")
+    for n, fits in ((250, 1000), (1260, 300)):
+        ours, theirs = bench_repeated(n, 0.9, max(20, int(fits * q)))
+        print(
+            f"repeated fits n={n}: errdist {ours * 1e3:.3f} ms/fit (warm start), "
+            f"scipy {theirs * 1e3:.3f} ms/fit, ratio {theirs / ours:.1f}"
+        )
+    return 0
+
+
+if __name__ == "__main__":
+    sys.exit(main())
