@@ -530,3 +530,195 @@ add(
 # =====================================================================================
 # Risk (entries added by the risk helpers, one block each, below this line)
 # =====================================================================================
+
+
+# =====================================================================================
+# Risk measures and backtesting (one self-contained block; owner: risk)
+# =====================================================================================
+
+_CONFIDENCE = "Confidence as a fraction strictly between 0 and 1, e.g. 0.99 for 99%."
+_VAR_RETURNS = [[v] for v in (0.0123, -0.0089, 0.0031, None, -0.0245, 0.0067, 0.0154)] + [
+    [v] for v in (-0.0012, 0.0078, -0.0301, 0.0019, 0.0042)
+]
+_VAR_FORECASTS = [[0.021]] * 9 + [[None], [0.022], [0.022]]
+
+
+def _risk_params(*, loc_example: float = 0.0005) -> tuple[Param, ...]:
+    return (
+        number("confidence", _CONFIDENCE, example=0.99),
+        _loc(loc_example),
+        _scale(0.01),
+        _shape(1.3),
+        number(
+            "horizon_days",
+            'Optional horizon in days, >= 1 (default 1); a whole number with horizon_rule "iid".',
+            example=10,
+            default=1.0,
+            spill=False,
+        ),
+        number(
+            "amount",
+            "Optional position value > 0: the result is then money (amount x return loss). "
+            "Omitted: a return, e.g. 0.025 for a 2.5% loss.",
+            example=1_000_000.0,
+            default=None,
+        ),
+        text(
+            "horizon_rule",
+            '"sqrt" (default): centred one-day quantile x sqrt(days), location x days. '
+            '"iid": exact law of the sum of i.i.d. one-day returns (the fat tail is not simply '
+            "scaled).",
+            choices=("sqrt", "iid"),
+            default="sqrt",
+        ),
+    )
+
+
+def _var_cells(
+    confidence: Any, loc: Any, scale: Any, shape: Any, horizon: float, amount: Any, rule: str
+) -> Any:
+    from errdist.risk import value_at_risk
+
+    return value_at_risk(
+        confidence, loc, scale, shape, horizon=horizon, amount=amount, horizon_rule=rule
+    )
+
+
+def _es_cells(
+    confidence: Any, loc: Any, scale: Any, shape: Any, horizon: float, amount: Any, rule: str
+) -> Any:
+    from errdist.risk import expected_shortfall
+
+    return expected_shortfall(
+        confidence, loc, scale, shape, horizon=horizon, amount=amount, horizon_rule=rule
+    )
+
+
+def _backtest_table(
+    returns_: np.ndarray, var_forecasts: np.ndarray, confidence: float, header: bool
+) -> list[list[Any]]:
+    from errdist.backtest import backtest
+
+    r, v = returns_.ravel(), var_forecasts.ravel()
+    # The cell reader trims trailing blank rows, so ranges of equal height can arrive with
+    # different lengths: the shorter one is blank beyond its end (pairs dropped and counted).
+    if r.size != v.size:
+        size = max(r.size, v.size)
+        r = np.concatenate([r, np.full(size - r.size, np.nan)])
+        v = np.concatenate([v, np.full(size - v.size, np.nan)])
+    res = backtest(r, v, confidence)
+    rows: list[list[Any]] = []
+    for label, value in res.rows():
+        if label == "plus factor" and value is None:
+            value = "none: the table is for 250 days at 99%"
+        rows.append([label, value])
+    return rows
+
+
+def _rolling_cells(returns_: np.ndarray, window: float, confidence: float, method: str) -> Any:
+    from errdist.backtest import rolling_var
+
+    return rolling_var(returns_, _whole(window, "window", 4, _MAX_ROWS), confidence, method)
+
+
+add(
+    Entry(
+        name="ERRDIST_VAR",
+        core="errdist.risk:value_at_risk",
+        call=_var_cells,
+        params=_risk_params(),
+        result="spill",
+        summary="Value-at-Risk: the loss not exceeded with the given confidence, as a positive "
+        "return (or money with amount), from the error distribution of one-day returns.",
+        notes="VaR = -q where q is the (1 - confidence) quantile of the horizon return. "
+        'Horizon rules: "sqrt" scales the centred quantile by sqrt(days) and the location by '
+        'days (a convention, exact only for the normal law); "iid" computes the law of the sum '
+        "of independent one-day returns numerically. Both assume independent days. See "
+        "`docs/risk.md`.",
+    )
+)
+
+add(
+    Entry(
+        name="ERRDIST_ES",
+        core="errdist.risk:expected_shortfall",
+        call=_es_cells,
+        params=_risk_params(),
+        result="spill",
+        summary="Expected Shortfall: the mean loss on the days beyond the VaR at the given "
+        "confidence, as a positive return (or money with amount), in closed form.",
+        notes="ES = a Gamma(2/b) Q(2/b, z) / (2 Gamma(1/b) (1 - confidence)) - m for one day, "
+        "with z = |(q - m)/a|^b (derivation in `docs/risk.md`); horizon rules as for "
+        "ERRDIST_VAR.",
+    )
+)
+
+add(
+    Entry(
+        name="ERRDIST_BACKTEST",
+        core="errdist.backtest:backtest",
+        call=_backtest_table,
+        params=(
+            data_range(
+                "returns",
+                "Column of realised returns in time order. Blank cells drop their pair.",
+                example=_VAR_RETURNS,
+            ),
+            data_range(
+                "var_forecasts",
+                "Column of the VaR forecast (positive loss) for each of those days, same "
+                "height. Blank cells drop their pair.",
+                example=_VAR_FORECASTS,
+            ),
+            number("confidence", _CONFIDENCE, example=0.99, spill=False),
+            flag("header", "TRUE adds a row of labels (measure, value) above the table."),
+        ),
+        result="table",
+        header=("measure", "value"),
+        call_in_wizard=False,
+        summary="Backtest of VaR forecasts: exceptions (return < -VaR), Kupiec and "
+        "Christoffersen likelihood-ratio tests with p-values, Basel traffic-light zone and plus "
+        "factor, as a two-column labelled table.",
+        notes="Rows: observations; exceptions; expected exceptions; pairs dropped (a blank in "
+        "either column); LR POF (Kupiec) and its chi-squared(1) p-value; LR IND "
+        "(Christoffersen) and p-value; LR CC = POF + IND and its chi-squared(2) p-value; zone "
+        "(green / yellow / red by the cumulative binomial probability, 95% and 99.99%); plus "
+        "factor (BCBS 1996 table for 250 days at 99%, quoted from memory; otherwise a note). "
+        "See `docs/backtesting.md`.",
+    )
+)
+
+add(
+    Entry(
+        name="ERRDIST_ROLLING_VAR",
+        core="errdist.backtest:rolling_var",
+        call=_rolling_cells,
+        params=(
+            data_range(
+                "returns",
+                "Column of returns in time order. Blank cells are skipped inside each window.",
+                example=_VAR_RETURNS,
+            ),
+            number(
+                "window",
+                "Number of past returns per fit: a whole number >= 4, smaller than the column.",
+                example=8,
+                spill=False,
+            ),
+            number("confidence", _CONFIDENCE, example=0.95, spill=False),
+            text(
+                "method",
+                '"mle" (default, maximum likelihood) or "moments" (MEDIAN, STDEV.S, KURT).',
+                choices=("mle", "moments"),
+                default="mle",
+            ),
+        ),
+        result="column",
+        call_in_wizard=False,
+        summary="One-day VaR forecasts aligned with a column of returns: each day's VaR is "
+        "fitted on the window of returns before it only; blank for the first window days.",
+        notes="Feeds ERRDIST_BACKTEST directly with the same returns column. No look-ahead: "
+        "the forecast in row t uses rows t - window to t - 1. A row keeps the orientation of "
+        "its input. See `docs/backtesting.md`.",
+    )
+)
