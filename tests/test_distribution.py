@@ -156,7 +156,7 @@ def test_logcdf_finite_where_cdf_underflows() -> None:
 @pytest.mark.parametrize("shape", [0.5, 1.0, 2.0, 8.0])
 def test_ppf_extreme_tails_against_mpmath(shape: float) -> None:
     # Source: mpmath.findroot on the 40-digit cdf, at p = 1e-300 and its neighbours.
-    for p in [1e-300, 1e-100, 1e-20, 0.25, 0.4999, 0.5 + 1e-9]:
+    for p in [1e-300, 1e-100, 1e-20, 0.0499, 0.05, 0.07, 0.25, 0.4999, 0.5 + 1e-9, 0.9]:
         x = D.ppf(p, 0.0, 1.0, shape)
         ref = mp.findroot(lambda t, p=p: mp_cdf(t, 0.0, 1.0, shape) - p, mp.mpf(x))
         assert rel(x, ref) < 5e-14, (p, x, ref)
