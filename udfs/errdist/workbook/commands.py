@@ -48,6 +48,7 @@ class _Progress:
         elapsed = time.perf_counter() - t0
         self.timings[name] = elapsed
         if elapsed >= PROGRESS_AFTER:
+            sys.stdout.flush()
             print(f"{name}… {elapsed:.1f} s", file=self.stream or sys.stderr, flush=True)
 
 
