@@ -245,7 +245,13 @@ def test_unknown_statistic(bad: object) -> None:
 
 @pytest.mark.parametrize(
     ("bad", "err"),
-    [(0, DomainError), (2.5, InputTypeError), (True, InputTypeError), (10**6, DomainError)],
+    [
+        (0, DomainError),
+        (2.5, DomainError),
+        ("many", InputTypeError),
+        (True, InputTypeError),
+        (10**6, DomainError),
+    ],
 )
 def test_bad_samples(bad: object, err: type) -> None:
     with pytest.raises(err, match="samples"):

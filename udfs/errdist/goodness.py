@@ -362,7 +362,7 @@ def _samples(samples: Any) -> int:
         raise InputTypeError(f"samples must be a whole number, got {samples!r}")
     value = float(samples)
     if not math.isfinite(value) or value != math.floor(value):
-        raise InputTypeError(f"samples must be a whole number, got {samples!r}")
+        raise DomainError(f"samples must be a whole number, got {samples!r}")
     if not 1 <= value <= MAX_SAMPLES:
         raise DomainError(f"samples must be between 1 and {MAX_SAMPLES}, got {int(value)}")
     return int(value)

@@ -722,3 +722,161 @@ add(
         "its input. See `docs/backtesting.md`.",
     )
 )
+
+
+# =====================================================================================
+# Model checking: goodness of fit, rival laws, chart points (one self-contained block)
+# =====================================================================================
+
+
+def _gof_table(
+    data: np.ndarray,
+    loc: float | None,
+    scale: float | None,
+    shape: float | None,
+    statistic: str,
+    samples: float,
+    seed: float | None,
+) -> list[list[Any]]:
+    from errdist.goodness import MAX_SAMPLES, goodness_of_fit
+
+    n_samples = _whole(samples, "samples", 1, MAX_SAMPLES)
+    s = None if seed is None else _whole(seed, "seed", 0, 2**63 - 1)
+    r = goodness_of_fit(data, loc, scale, shape, statistic=statistic, samples=n_samples, seed=s)
+    return [
+        ["statistic", r.statistic_name],
+        ["value", r.statistic],
+        ["p-value", r.pvalue],
+        ["samples", r.samples],
+        ["refit", bool(r.refit)],
+        ["loc", r.loc],
+        ["scale", r.scale],
+        ["shape", r.shape],
+        ["n", r.n],
+    ]
+
+
+def _compare_table(data: np.ndarray, header: bool) -> list[list[Any]]:
+    from errdist.rivals import compare
+
+    return compare(data).to_numpy(dtype=object).tolist()
+
+
+def _empirical_table(
+    data: np.ndarray, loc: float, scale: float, shape: float, header: bool
+) -> list[list[Any]]:
+    from errdist.empirical import empirical_points
+
+    return empirical_points(data, loc, scale, shape).to_numpy(dtype=np.float64).tolist()
+
+
+add(
+    Entry(
+        name="ERRDIST_GOF",
+        core="errdist.goodness:goodness_of_fit",
+        call=_gof_table,
+        params=(
+            data_range("data", _DATA, example=_EXAMPLE_DATA),
+            number(
+                "loc",
+                "Optional location of a law fixed in advance. Give loc, scale and shape "
+                "together, or none of them to fit the law by maximum likelihood.",
+                example=0.0,
+                default=None,
+                spill=False,
+            ),
+            number(
+                "scale",
+                "Optional scale a > 0 of a law fixed in advance (with loc and shape).",
+                example=0.015,
+                default=None,
+                spill=False,
+            ),
+            number(
+                "shape",
+                "Optional shape b > 0 of a law fixed in advance (with loc and scale).",
+                example=1.5,
+                default=None,
+                spill=False,
+            ),
+            text(
+                "statistic",
+                '"ad" Anderson-Darling (default, weighs the tails), "ks" Kolmogorov-Smirnov '
+                'or "cvm" Cramer-von Mises.',
+                choices=("ad", "ks", "cvm"),
+                default="ad",
+            ),
+            number(
+                "samples",
+                "Simulated data sets for the p-value, a whole number 1 to 100000 (default 999).",
+                example=99,
+                default=999,
+                spill=False,
+            ),
+            number(
+                "seed",
+                "Optional whole-number seed: the same seed gives the same p-value. Omit it for "
+                "a fresh simulation on every recalculation.",
+                example=20261202,
+                default=None,
+                spill=False,
+            ),
+        ),
+        result="table",
+        call_in_wizard=False,
+        summary="Goodness of fit of the error distribution: EDF statistic and bootstrap "
+        "p-value, refitting each simulated sample when the law was fitted. Two-column "
+        "labelled table.",
+        notes="Rows: statistic (its name); value; p-value = (1 + #{simulated >= value}) / "
+        "(samples + 1); samples; refit (TRUE when loc, scale, shape were fitted by maximum "
+        "likelihood and every simulated data set refitted, FALSE for a law given in full); "
+        "loc, scale, shape (the law tested); n (numbers used). Giving only some of loc, "
+        "scale and shape is refused (`#VALUE!`). See `docs/model-checking.md`.",
+    )
+)
+
+add(
+    Entry(
+        name="ERRDIST_COMPARE",
+        core="errdist.rivals:compare",
+        call=_compare_table,
+        params=(
+            data_range("data", _DATA, example=_EXAMPLE_DATA),
+            flag("header", "TRUE adds a row of column labels above the table."),
+        ),
+        result="table",
+        header=("law", "loc", "scale", "shape_or_df", "loglik", "aic", "bic", "ks", "var99"),
+        call_in_wizard=False,
+        summary="Fits the error, normal, Laplace, Student t and Cauchy laws by maximum "
+        "likelihood; one row each with log-likelihood, AIC, BIC, KS distance and 99% VaR, "
+        "best AIC first.",
+        notes="Columns: law; loc; scale; shape_or_df (error-law shape, Student t degrees of "
+        "freedom, blank otherwise); loglik; aic = 2k - 2 ln L; bic = k ln n - 2 ln L (k = 3 "
+        "for the error law and t, 2 otherwise); ks = largest gap between the data's "
+        "empirical distribution and the fitted law; var99 = one-day 99% VaR as a positive "
+        "loss. See `docs/model-checking.md`.",
+    )
+)
+
+add(
+    Entry(
+        name="ERRDIST_EMPIRICAL",
+        core="errdist.empirical:empirical_points",
+        call=_empirical_table,
+        params=(
+            data_range("data", _DATA, example=_EXAMPLE_DATA),
+            _loc(0.0, spill=False),
+            _scale(0.015, spill=False),
+            _shape(1.5, spill=False),
+            flag("header", "TRUE adds a row of column labels above the table."),
+        ),
+        result="table",
+        header=("return", "probability", "fitted_cdf", "fitted_quantile"),
+        summary="Chart points: sorted data, plotting position (i-0.5)/n, fitted CDF at each "
+        "point and fitted quantile at each position - for an ECDF-vs-fit chart and a QQ "
+        "chart.",
+        notes="One row per number, ascending. ECDF chart: return vs probability (points) and "
+        "return vs fitted_cdf (line). QQ chart: fitted_quantile (x) vs return (y) with the "
+        "45-degree line. Hazen plotting position; see `docs/model-checking.md`.",
+    )
+)
