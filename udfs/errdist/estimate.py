@@ -24,6 +24,7 @@ from errdist.errors import DomainError, InputTypeError
 from errdist.mle import SHAPE_MAX, SHAPE_MIN, _mle_sorted
 from errdist.moment_solvers import solve_scale, solve_shape
 from errdist.sample_stats import (
+    _clean,
     _kurt,
     _mean,
     _require_spread,
@@ -203,7 +204,7 @@ def fit(
     """
     if method not in ("mle", "moments"):
         raise InputTypeError(f"method must be 'mle' or 'moments', got {method!r}")
-    x, n_dropped = clean_sample(data)
+    x, n_dropped = _clean(data, "data", 4, copy=False)  # read only below
     n = x.size
     if method == "moments":
         k = _kurt(x)  # raises on zero spread
@@ -225,5 +226,5 @@ def fit(
         start_shape = float(start_shape)
         if not (math.isfinite(start_shape) and start_shape > 0.0):
             raise DomainError(f"start shape must be > 0, got {start_shape:g}")
-    loc, scale, shape, _ = _mle_sorted(xs, start_shape)
-    return _make_fit(loc, scale, shape, "mle", n, n_dropped, _loglik(x, loc, scale, shape))
+    loc, scale, shape, ll = _mle_sorted(xs, start_shape)
+    return _make_fit(loc, scale, shape, "mle", n, n_dropped, ll)

@@ -92,10 +92,18 @@ def clean_sample(
     InsufficientDataError
         Fewer than ``min_count`` numbers remain.
     """
+    return _clean(data, name, min_count, copy=True)
+
+
+def _clean(data: Any, name: str, min_count: int, *, copy: bool) -> tuple[np.ndarray, int]:
+    """:func:`clean_sample`; with ``copy=False`` the result may share memory with ``data``."""
     arr = _as_float_array(data, name).ravel(order="C")
     nan = np.isnan(arr)
     n_dropped = int(np.count_nonzero(nan))
-    values = arr[~nan] if n_dropped else arr.copy()
+    if n_dropped:
+        values = arr[~nan]
+    else:
+        values = arr.copy() if copy else arr
     if not np.isfinite(values).all():
         pos = int(np.flatnonzero(np.isinf(arr))[0]) + 1
         raise DomainError(f"{name} must be finite numbers, got {arr[pos - 1]} at position {pos}")
