@@ -127,7 +127,7 @@ def _two_day_reference(shape: float, u: float) -> tuple[float, float]:
         return float(q), float(tail / u)
 
 
-@pytest.mark.parametrize("shape", [0.5, 1.5, 3.0])
+@pytest.mark.parametrize("shape", [0.25, 0.5, 1.5, 3.0])
 def test_iid_two_days_matches_mpmath_convolution(shape: float) -> None:
     u = 0.005
     q_ref, tail_ref = _two_day_reference(shape, u)

@@ -11,7 +11,8 @@ Method
 ------
 1. Discretise :math:`Y` on the grid :math:`k d`, :math:`|k| \le K`, with the exact cell masses
    :math:`F((k+\frac12)d) - F((k-\frac12)d)`; the two tails beyond :math:`\pm(K-\frac12)d` are
-   lumped on the end points (their probability :math:`\varepsilon` is tiny; the error they leave
+   lumped on the end points (their probability :math:`\varepsilon \le \min(10^{-8}, 10^{-6}u)`,
+   or :math:`\min(10^{-7}, 10^{-4}u)` for :math:`b < 1/2`, is tiny; the error they leave
    in the lower-tail partial expectation is added back exactly, from
    :math:`E[Y; Y < -e] = -\Gamma(2/b, e^b) / (2\Gamma(1/b))`).
 2. Convolve :math:`h` times in one step: the FFT of the masses raised to the power :math:`h`
@@ -151,7 +152,10 @@ def sum_lower_tail(
     """
     u = np.asarray(u, dtype=np.float64)
     umin = float(np.min(u))
-    tail_eps = 10.0 ** math.floor(math.log10(min(1e-8, 1e-6 * umin)))
+    # tail mass lumped on the grid ends: far below u; heavy tails (b < 1/2) reach so far
+    # beyond the quantile that a larger lump is harmless and the grid much shorter
+    ratio, cap = (1e-4, 1e-7) if shape < 0.5 else (1e-6, 1e-8)
+    tail_eps = 10.0 ** math.floor(math.log10(min(cap, ratio * umin)))
     fine, coarse = _laws(float(shape), int(h), tail_eps)
     q = np.empty(u.shape)
     m = np.empty(u.shape)
