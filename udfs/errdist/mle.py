@@ -35,6 +35,7 @@ Nadarajah 2005, "A generalized normal distribution", J. Applied Statistics 32(7)
 from __future__ import annotations
 
 import math
+import threading
 
 import numpy as np
 from scipy.special import gammaln, polygamma, psi
@@ -63,6 +64,49 @@ _HALF_WINDOW = 8  # minimum half-width (ranks) of the b <= 1 candidate window
 _SHELLS = ((4.0, 22), (16.0, 11), (256.0, 6))
 
 
+_ZERO_LOG = -1e300  # stands for ln 0: exp(b·it) = 0 and 0·it = 0, without NaN
+_CACHE_MAX = 2_000_000  # largest n whose scratch arrays are kept between fits
+_MATRIX_MIN = 1 << 16  # size of the scratch area for candidate × observation blocks
+
+
+class _Workspace:
+    """Scratch arrays reused across the steps of a fit (and across fits, per thread).
+
+    Fresh large arrays cost page faults on first touch, which dominate the run time of a
+    fit at n = 100,000 on some machines; reusing a few buffers avoids them.
+    """
+
+    def __init__(self, n: int) -> None:
+        self.size = n
+        self.d = np.empty(n)
+        self.lg = np.empty(n)
+        self.p = np.empty(n)
+        self.q = np.empty(n)
+        self.mat = np.empty(max(n, _MATRIX_MIN))
+
+    def view(self, n: int) -> _Workspace:
+        if n == self.size:
+            return self
+        w = _Workspace.__new__(_Workspace)
+        w.size = n
+        w.d, w.lg, w.p, w.q = self.d[:n], self.lg[:n], self.p[:n], self.q[:n]
+        w.mat = self.mat
+        return w
+
+
+_local = threading.local()
+
+
+def _workspace(n: int) -> _Workspace:
+    ws = getattr(_local, "ws", None)
+    if ws is not None and ws.size >= n:
+        return ws.view(n)
+    ws = _Workspace(n)
+    if n <= _CACHE_MAX:
+        _local.ws = ws
+    return ws
+
+
 def _dot(a: np.ndarray, b: np.ndarray) -> float:
     """Σ aᵢbᵢ without BLAS (a threaded BLAS dot stalls for milliseconds on a busy machine)."""
     return float(np.einsum("i,i->", a, b))
@@ -73,21 +117,44 @@ def _profile_value(s0: float, n: int, b: float) -> float:
     return n * (math.log(b) - _LOG2 - float(gammaln(1.0 / b)) - math.log(b * s0 / n) / b - 1.0 / b)
 
 
-def _shape_given_loc(lg: np.ndarray, n: int, b0: float) -> float:
+def _ties(xs: np.ndarray, m: float) -> tuple[int, int]:
+    """Index range [j, k) of the observations equal to m (xs[:j] < m < xs[k:])."""
+    j = int(np.searchsorted(xs, m, "left"))
+    if j < xs.size and xs[j] == m:
+        return j, int(np.searchsorted(xs, m, "right"))
+    return j, j
+
+
+def _log_dist(xs: np.ndarray, m: float, ws: _Workspace) -> np.ndarray:
+    """ln|x−m| into ws.lg, with _ZERO_LOG for the observations equal to m."""
+    lg = ws.lg
+    np.subtract(xs, m, out=lg)
+    np.abs(lg, out=lg)
+    j, k = _ties(xs, m)
+    lg[j:k] = 1.0
+    np.log(lg, out=lg)
+    lg[j:k] = _ZERO_LOG
+    return lg
+
+
+def _shape_given_loc(lg: np.ndarray, n: int, b0: float, ws: _Workspace) -> float:
     """Maximise the profile ℓ(m, b) over b for a fixed location.
 
-    ``lg`` holds ln|xᵢ−m| for the observations with xᵢ ≠ m (those equal to m add 0 to
-    every sum). Bracketed Newton in u = ln b on [ln SHAPE_MIN, ln SHAPE_MAX]; returns the
+    ``lg`` holds ln|xᵢ−m|, with −1e300 in place of −inf for observations equal to m
+    (they add 0 to every sum). Bracketed Newton in u = ln b on [ln SHAPE_MIN, ln SHAPE_MAX]; returns the
     bound when ∂ℓ/∂u does not change sign inside.
     """
     u_lo, u_hi = _U_MIN, _U_MAX
     lo_tested = hi_tested = False
     u = min(max(math.log(b0), _U_MIN), _U_MAX)
+    p = ws.p[: lg.size]
+    pl = ws.q[: lg.size]
     for _ in range(100):
         b = math.exp(u)
-        p = np.exp(b * lg)
+        np.multiply(lg, b, out=p)
+        np.exp(p, out=p)
         s0 = float(p.sum())
-        pl = p * lg
+        np.multiply(p, lg, out=pl)
         r1 = float(pl.sum()) / s0
         var = float(_dot(pl, lg)) / s0 - r1 * r1
         inv = 1.0 / b
@@ -125,7 +192,7 @@ def _pow(a: np.ndarray, b: float) -> np.ndarray:
     return np.exp(a, out=a)
 
 
-def _loc_smooth(xs: np.ndarray, b: float, m0: float, tol: float) -> float:
+def _loc_smooth(xs: np.ndarray, b: float, m0: float, tol: float, ws: _Workspace) -> float:
     """Minimiser of S_b(m) for b > 1: root of T(m) = Σ sign(x−m)|x−m|^(b−1) (decreasing).
 
     Newton steps (T' = −(b−1)Σ|x−m|^(b−2)) safeguarded by a bracket of the root and by
@@ -136,22 +203,25 @@ def _loc_smooth(xs: np.ndarray, b: float, m0: float, tol: float) -> float:
     m = min(max(m0, lo), hi)
     bm1 = b - 1.0
     last_step = math.inf
+    ad, q = ws.d, ws.p
     for _it in range(200):
-        j = int(np.searchsorted(xs, m))
-        ad = np.abs(xs - m)
-        q = _pow(ad.copy(), bm1)
-        t = float(q[j:].sum()) - float(q[:j].sum())
+        j, k = _ties(xs, m)
+        np.subtract(xs, m, out=ad)
+        np.abs(ad, out=ad)
+        ad[j:k] = 1.0
+        np.log(ad, out=q)
+        q[j:k] = _ZERO_LOG
+        q *= bm1
+        np.exp(q, out=q)  # |x−m|^(b−1), 0 at ties
+        t = float(q[k:].sum()) - float(q[:j].sum())
         if t == 0.0:
             return m
         if t > 0.0:
             lo, t_lo = m, t
         else:
             hi, t_hi = m, t
-        if ad.min() == 0.0:
-            nz = ad > 0.0
-            u = float((q[nz] / ad[nz]).sum())
-        else:
-            u = float((q / ad).sum())
+        np.divide(q, ad, out=q)
+        u = float(q.sum())
         mn = m + t / (bm1 * u) if u > 0.0 else math.nan
         if not (lo < mn < hi) or abs(mn - m) > 0.5 * last_step:
             if math.isfinite(t_lo) and math.isfinite(t_hi):
@@ -169,7 +239,7 @@ def _loc_smooth(xs: np.ndarray, b: float, m0: float, tol: float) -> float:
     return m
 
 
-def _joint_newton(xs: np.ndarray, m: float, b: float) -> tuple[float, float, bool]:
+def _joint_newton(xs: np.ndarray, m: float, b: float, ws: _Workspace) -> tuple[float, float, bool]:
     """Newton iteration on ℓ(m, u = ln b) jointly, for the smooth region b > 1.
 
     With d = x − m, p = |d|^b, L = ln|d|, S0 = Σp, S1 = Σp·L, S2 = Σp·L², T = Σp/d,
@@ -185,22 +255,15 @@ def _joint_newton(xs: np.ndarray, m: float, b: float) -> tuple[float, float, boo
     """
     n = xs.size
     best = -math.inf
-    d = np.empty(n)
-    lg = np.empty(n)
-    p = np.empty(n)
-    w = np.empty(n)
+    d, lg, p, w = ws.d, ws.lg, ws.p, ws.q
     for _ in range(30):
-        j = int(np.searchsorted(xs, m))
-        if j < n and xs[j] == m:  # observations at m add nothing to any sum
-            dd = xs[xs != m] - m
-            d, lg, p, w = dd, np.empty(dd.size), np.empty(dd.size), np.empty(dd.size)
-        elif d.size != n:
-            d, lg, p, w = np.empty(n), np.empty(n), np.empty(n), np.empty(n)
-            np.subtract(xs, m, out=d)
-        else:
-            np.subtract(xs, m, out=d)
+        j, k = _ties(xs, m)
+        np.subtract(xs, m, out=d)
         np.abs(d, out=lg)
+        d[j:k] = 1.0
+        lg[j:k] = 1.0
         np.log(lg, out=lg)
+        lg[j:k] = _ZERO_LOG
         np.multiply(lg, b, out=p)
         np.exp(p, out=p)
         s0 = float(p.sum())
@@ -241,17 +304,21 @@ def _joint_newton(xs: np.ndarray, m: float, b: float) -> tuple[float, float, boo
     return m, b, False
 
 
-def _s_at(xs: np.ndarray, idx: np.ndarray, b: float) -> np.ndarray:
-    """S_b(xs[j]) for every j in ``idx`` (direct, chunked outer difference)."""
+def _s_at(xs: np.ndarray, idx: np.ndarray, b: float, ws: _Workspace) -> np.ndarray:
+    """S_b(xs[j]) for every j in ``idx`` (direct, in blocks of the scratch area)."""
+    n = xs.size
     out = np.empty(idx.size)
-    step = max(1, 1_000_000 // xs.size)
+    step = max(1, ws.mat.size // n)
     for k in range(0, idx.size, step):
-        c = xs[idx[k : k + step], None]
-        out[k : k + step] = _pow(np.abs(xs[None, :] - c), b).sum(axis=1)
+        c = xs[idx[k : k + step]]
+        block = ws.mat[: c.size * n].reshape(c.size, n)
+        np.subtract(xs[None, :], c[:, None], out=block)
+        np.abs(block, out=block)
+        out[k : k + step] = _pow(block, b).sum(axis=1)
     return out
 
 
-def _s_window(xs: np.ndarray, lo: int, hi: int, b: float) -> np.ndarray:
+def _s_window(xs: np.ndarray, lo: int, hi: int, b: float, ws: _Workspace) -> np.ndarray:
     """S_b(xs[j]) for the consecutive candidates j = lo … hi−1 of the sorted data.
 
     Observations farther than 4·w from the window centre c (w: half-width of the window
@@ -270,7 +337,7 @@ def _s_window(xs: np.ndarray, lo: int, hi: int, b: float) -> np.ndarray:
     w = max(c - float(cand[0]), float(cand[-1]) - c)
     n = xs.size
     if w == 0.0:
-        return np.full(cand.size, _s_at(xs, np.array([mid]), b)[0])
+        return np.full(cand.size, _s_at(xs, np.array([mid]), b, ws)[0])
     lefts = [int(np.searchsorted(xs, c - rho * w, "left")) for rho, _ in _SHELLS] + [0]
     rights = [int(np.searchsorted(xs, c + rho * w, "right")) for rho, _ in _SHELLS] + [n]
     i0, i1 = lefts[0], rights[0]
@@ -278,15 +345,18 @@ def _s_window(xs: np.ndarray, lo: int, hi: int, b: float) -> np.ndarray:
     for z, (_, terms) in enumerate(_SHELLS):
         cost += 2 * terms * (lefts[z] - lefts[z + 1] + rights[z + 1] - rights[z])
     if cost >= 6 * cand.size * n:  # direct evaluation is cheaper
-        return _s_at(xs, np.arange(lo, hi), b)
+        return _s_at(xs, np.arange(lo, hi), b, ws)
     kmax = _SHELLS[0][1]
     moments = np.zeros(kmax + 1)
     for z, (_, terms) in enumerate(_SHELLS):
-        d = np.concatenate((xs[lefts[z + 1] : lefts[z]], xs[rights[z] : rights[z + 1]])) - c
-        if d.size == 0:
+        left, right = xs[lefts[z + 1] : lefts[z]], xs[rights[z] : rights[z + 1]]
+        size = left.size + right.size
+        if size == 0:
             continue
-        r = 1.0 / d
-        t = _pow(np.abs(d), b)
+        d = np.concatenate((left, right), out=ws.d[:size])
+        d -= c
+        r = np.divide(1.0, d, out=ws.lg[:size])
+        t = _pow(np.abs(d, out=ws.p[:size]), b)
         moments[0] += t.sum()
         for k in range(1, terms + 1):
             t *= r
@@ -298,21 +368,25 @@ def _s_window(xs: np.ndarray, lo: int, hi: int, b: float) -> np.ndarray:
         beta *= -(b - k + 1.0) / k  # C(b, k)·(−1)^k
         coef[k] = beta * moments[k]
     far = np.polynomial.polynomial.polyval(cand - c, coef)
-    dist = np.subtract.outer(cand, xs[i0:i1])
+    near = xs[i0:i1]
+    size = cand.size * near.size
+    buf = ws.mat[:size] if size <= ws.mat.size else np.empty(size)
+    dist = buf.reshape(cand.size, near.size)
+    np.subtract(cand[:, None], near[None, :], out=dist)
     np.abs(dist, out=dist)
     return far + _pow(dist, b).sum(axis=1)
 
 
 def _search_window(n: int, b: float) -> int:
-    """Half-width (in ranks) of the candidate search for b ≤ 1: 0.3·√n/b + 8."""
-    return int(math.ceil(0.3 * math.sqrt(n) / b)) + _HALF_WINDOW
+    """Half-width (in ranks) of the candidate search for b ≤ 1: 0.2·√n/b + 8."""
+    return int(math.ceil(0.2 * math.sqrt(n) / b)) + _HALF_WINDOW
 
 
-def _loc_discrete(xs: np.ndarray, b: float, m0: float, half: int = 0) -> float:
+def _loc_discrete(xs: np.ndarray, b: float, m0: float, ws: _Workspace, half: int = 0) -> float:
     """Best observation for b ≤ 1 (S_b is concave between observations).
 
     Every observation is a candidate when n ≤ 400. Otherwise the candidates are the
-    observations within h = 0.3·√n/b + 8 ranks of the current location (or ``half``
+    observations within h = 0.2·√n/b + 8 ranks of the current location (or ``half``
     ranks when given: the alternation re-checks a converged location with h/4), and the
     window grows until the best candidate is at least h/2 ranks from both edges of what has
     been searched. Rationale: S_b(m) is a smooth bowl (curvature of order n) plus a rough part
@@ -322,7 +396,7 @@ def _loc_discrete(xs: np.ndarray, b: float, m0: float, half: int = 0) -> float:
     """
     n = xs.size
     if n <= _EXHAUSTIVE_N:
-        s = _s_at(xs, np.arange(n), b)
+        s = _s_at(xs, np.arange(n), b, ws)
         return float(xs[int(np.argmin(s))])
     half = half or _search_window(n, b)
     margin = half // 2
@@ -332,7 +406,7 @@ def _loc_discrete(xs: np.ndarray, b: float, m0: float, half: int = 0) -> float:
     lo, hi = j - half, j + half + 1
     while True:
         lo, hi = max(lo, 0), min(hi, n)
-        s = _s_window(xs, lo, hi, b)
+        s = _s_window(xs, lo, hi, b, ws)
         k = int(np.argmin(s))
         if s[k] < best_s:
             best_s, best_j = float(s[k]), lo + k
@@ -345,23 +419,15 @@ def _loc_discrete(xs: np.ndarray, b: float, m0: float, half: int = 0) -> float:
             lo, hi = seen_lo - half, seen_lo
 
 
-def _moment_shape(xs: np.ndarray) -> float:
+def _moment_shape(xs: np.ndarray, ws: _Workspace) -> float:
     """Quick moment-based starting shape (plain, not spreadsheet-exact)."""
-    d = xs - xs.mean()
-    d2 = d * d
-    v = float(d2.mean())
-    k = float(_dot(d2, d2) / xs.size) / (v * v) - 3.0
+    d = np.subtract(xs, xs.mean(), out=ws.d)
+    d *= d
+    v = float(d.sum()) / xs.size
+    k = _dot(d, d) / xs.size / (v * v) - 3.0
     if not k > -1.17:
         return SHAPE_MAX
     return min(max(solve_shape(k), SHAPE_MIN), SHAPE_MAX)
-
-
-def _log_dist(xs: np.ndarray, m: float) -> np.ndarray:
-    """ln|x−m| for the observations different from m."""
-    ad = np.abs(xs - m)
-    if ad.min() == 0.0:
-        ad = ad[ad > 0.0]
-    return np.log(ad, out=ad)
 
 
 def _mle_sorted(
@@ -377,32 +443,40 @@ def _mle_sorted(
     no longer moves.
     """
     n = xs.size
-    b = _moment_shape(xs) if start_shape is None else min(max(start_shape, SHAPE_MIN), SHAPE_MAX)
+    ws = _workspace(n)
+    b = (
+        _moment_shape(xs, ws)
+        if start_shape is None
+        else min(max(start_shape, SHAPE_MIN), SHAPE_MAX)
+    )
     half = n // 2
     m = float(xs[half]) if n % 2 else 0.5 * (float(xs[half - 1]) + float(xs[half]))
     tol = 1e-15 * (float(xs[-1] - xs[0]) + abs(m))
     if b > 1.0:
-        m, b, ok = _joint_newton(xs, m, b)
+        m, b, ok = _joint_newton(xs, m, b, ws)
         if ok:
-            return _finish(xs, m, b)
+            return _finish(xs, m, b, ws)
     searched = False
     for _ in range(100):
-        b = _shape_given_loc(_log_dist(xs, m), n, b)
+        b = _shape_given_loc(_log_dist(xs, m, ws), n, b, ws)
         if b > 1.0:
-            m_new = _loc_smooth(xs, b, m, tol)
+            m_new = _loc_smooth(xs, b, m, tol, ws)
         else:
             # first search with the full window, re-checks with a quarter of it
             half = _search_window(n, b)
-            m_new = _loc_discrete(xs, b, m, max(_HALF_WINDOW, half // 4) if searched else half)
+            m_new = _loc_discrete(xs, b, m, ws, max(_HALF_WINDOW, half // 4) if searched else half)
             searched = True
         if abs(m_new - m) <= tol:
             break
         m = m_new
-    return _finish(xs, m, b)
+    return _finish(xs, m, b, ws)
 
 
-def _finish(xs: np.ndarray, m: float, b: float) -> tuple[float, float, float, float]:
+def _finish(
+    xs: np.ndarray, m: float, b: float, ws: _Workspace
+) -> tuple[float, float, float, float]:
     n = xs.size
-    s0 = float(_pow(np.abs(xs - m), b).sum())
+    a = np.subtract(xs, m, out=ws.d)
+    s0 = float(_pow(np.abs(a, out=a), b).sum())
     scale = (b * s0 / n) ** (1.0 / b)
     return m, scale, b, _profile_value(s0, n, b)
