@@ -375,11 +375,12 @@ def _std_offsets(
     """Validated ``d = (x - loc) / scale`` and ``shape`` as arrays."""
     xa = _as_float_array("x", x)
     m, a, b = _params(loc, scale, shape)
-    d = np.subtract(xa, m)
-    if d.ndim > 0 and d.shape == np.broadcast_shapes(d.shape, a.shape):
-        d /= a  # in place: d is a fresh array of the final shape
-    else:
-        d = np.divide(d, a)
+    with np.errstate(over="ignore"):  # |x - m| / a beyond the float range is inf: fine
+        d = np.subtract(xa, m)
+        if d.ndim > 0 and d.shape == np.broadcast_shapes(d.shape, a.shape):
+            d /= a  # in place: d is a fresh array of the final shape
+        else:
+            d = np.divide(d, a)
     return d, b
 
 
