@@ -374,3 +374,19 @@ def test_nan_and_infinite_x() -> None:
 def test_public_reexport() -> None:
     # API.md: errdist re-exports the distribution functions.
     assert errdist.cdf is D.cdf and errdist.ppf is D.ppf and errdist.check_params is D.check_params
+
+
+def test_extreme_offsets_give_limits_without_warnings() -> None:
+    # |x - m| / a beyond the float range: cdf is exactly 0 / 1, logs -inf / 0 (limits of the
+    # law), and no RuntimeWarning leaks out.
+    import warnings
+
+    x = np.array([-1e300, 1e300])
+    with warnings.catch_warnings():
+        warnings.simplefilter("error")
+        np.testing.assert_array_equal(D.cdf(x, 0.0, 1e-300, 3.0), [0.0, 1.0])
+        np.testing.assert_array_equal(D.pdf(x, 0.0, 1e-300, 3.0), [0.0, 0.0])
+        np.testing.assert_array_equal(D.logcdf(x, 0.0, 1e-300, 3.0), [-np.inf, 0.0])
+        np.testing.assert_array_equal(D.logsf(x, 0.0, 1e-300, 3.0), [0.0, -np.inf])
+        assert D.cdf(-1e300, 0.0, 1e-300, 3.0) == 0.0
+        assert D.logcdf(-1e300, 0.0, 1e-300, 3.0) == -math.inf
