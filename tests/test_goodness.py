@@ -298,3 +298,16 @@ def test_bootstrap_fast_path_matches_scipy(statistic: str) -> None:
     ref = _scipy_stat(stats.norm, x[3], {"loc": 0.0, "scale": 1.4 / SQRT2}, statistic)
     assert np.isfinite(ours[3])
     assert ours[3] == pytest.approx(ref, rel=1e-9)
+
+
+def test_law_that_cannot_produce_the_data_is_a_domain_error() -> None:
+    # shape 1e308 is the uniform law on [loc - scale, loc + scale] (DESIGN.md: b -> inf);
+    # data outside it have probability 0, so A² is infinite: a #NUM! with the reason.
+    x = np.random.default_rng(2).normal(size=40)
+    with pytest.raises(DomainError, match="zero probability"):
+        goodness_of_fit(x, 0.0, 0.5, 1e308, samples=9)
+
+
+def test_overflowing_law_is_a_domain_error() -> None:
+    with pytest.raises(DomainError, match="overflow"):
+        goodness_of_fit(np.arange(10.0), 0.0, 1e308, 1.0, samples=9, seed=1)

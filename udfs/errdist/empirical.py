@@ -63,12 +63,16 @@ def empirical_points(data: ArrayLike, loc: float, scale: float, shape: float) ->
     x, _ = _est.clean_sample(data, name="data")
     x = np.sort(x)
     p = plotting_positions(x.size)
+    # (x - loc)/scale may overflow to ±inf for absurd parameters: the CDF is then exactly 0 or 1
+    with np.errstate(over="ignore", divide="ignore"):
+        fitted_cdf = np.asarray(_dist.cdf(x, loc, scale, shape), dtype=float)
+        fitted_quantile = np.asarray(_dist.ppf(p, loc, scale, shape), dtype=float)
     return pd.DataFrame(
         {
             "return": x,
             "probability": p,
-            "fitted_cdf": np.asarray(_dist.cdf(x, loc, scale, shape), dtype=float),
-            "fitted_quantile": np.asarray(_dist.ppf(p, loc, scale, shape), dtype=float),
+            "fitted_cdf": fitted_cdf,
+            "fitted_quantile": fitted_quantile,
         },
         columns=list(EMPIRICAL_COLUMNS),
     )

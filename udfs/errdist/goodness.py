@@ -250,7 +250,13 @@ def goodness_of_fit(
     else:
         m, a, b = (_number(v, k) for k, v in given.items())
         _dist.check_params(m, a, b)
-    t_obs = float(edf_statistic(x, m, a, b, key))
+    with np.errstate(over="ignore", divide="ignore", invalid="ignore"):
+        t_obs = float(edf_statistic(x, m, a, b, key))
+    if not math.isfinite(t_obs):
+        raise DomainError(
+            f"the {STATISTICS[key]} statistic is infinite: some data lie where the law "
+            f"(loc {m:g}, scale {a:g}, shape {b:g}) has zero probability in double precision"
+        )
 
     rng = np.random.default_rng(seed)
     rows_per_chunk = max(1, _CHUNK_VALUES // n)
@@ -258,7 +264,13 @@ def goodness_of_fit(
     done = 0
     while done < n_samples:
         rows = min(rows_per_chunk, n_samples - done)
-        sim = np.asarray(_dist.rvs((rows, n), m, a, b, seed=rng), dtype=float)
+        with np.errstate(over="ignore", invalid="ignore"):
+            sim = np.asarray(_dist.rvs((rows, n), m, a, b, seed=rng), dtype=float)
+        if not np.all(np.isfinite(sim)):
+            raise DomainError(
+                f"values simulated from the law (loc {m:g}, scale {a:g}, shape {b:g}) "
+                "overflow double precision; rescale the data"
+            )
         sim.sort(axis=1)
         if refit:
             ml, al, bl = _refit_rows(sim, b)
