@@ -1,0 +1,156 @@
+"""The words on the template's Guide sheet.
+
+Kept apart from the layout code so the text can be read and reviewed in one place. Each block is
+a (style, text) pair; the builder writes one block per row. Styles: ``"h2"`` a section heading,
+``"wrap"`` a paragraph, ``"bullet"`` a list item, ``"step"`` a numbered step.
+"""
+
+from __future__ import annotations
+
+PURPOSE: list[tuple[str, str]] = [
+    ("h2", "What this workbook does"),
+    (
+        "wrap",
+        'It fits the generalized normal ("error") distribution to the fund\'s daily log '
+        "returns, turns the fit into Value at Risk and Expected Shortfall, checks how well the "
+        "law fits, and backtests a rolling one-day VaR against the returns that followed. "
+        "Every figure is a live formula: the ERRDIST_ worksheet functions of the errdist add-in "
+        "and the spreadsheet's own built-in functions.",
+    ),
+    (
+        "wrap",
+        "The workbook is saved with every result already calculated, so it can be read in any "
+        "spreadsheet program even where the add-in is not installed; without the add-in the "
+        "ERRDIST_ cells show #NAME? as soon as the program recalculates them.",
+    ),
+]
+
+SHEETS: list[tuple[str, str]] = [
+    ("h2", "The sheets"),
+    (
+        "bullet",
+        "Prices — the input: one row per business day, date and closing price, oldest "
+        "first (yellow cells).",
+    ),
+    ("bullet", "Returns — daily log returns from the prices (ERRDIST_RETURNS)."),
+    (
+        "bullet",
+        "Calibration — sample statistics, the fit by moments and by maximum likelihood "
+        "side by side, the fit report, and the moments fit re-derived with built-in functions "
+        "only (a check that needs no add-in).",
+    ),
+    (
+        "bullet",
+        "Risk — one-day and ten-day VaR and Expected Shortfall at 95%, 99% and 99.5%, "
+        "for the fitted law and for the normal law with the same mean and standard deviation.",
+    ),
+    (
+        "bullet",
+        "Fit check — goodness-of-fit test, the comparison with rival laws, and the "
+        "tables behind the charts.",
+    ),
+    (
+        "bullet",
+        "Backtest — the rolling 250-day 99% VaR, its exceptions, the coverage tests "
+        "and the traffic-light zone.",
+    ),
+    (
+        "bullet",
+        "Charts — empirical vs fitted distribution, histogram vs fitted density, "
+        "QQ plot, and returns against the rolling VaR.",
+    ),
+    (
+        "bullet",
+        "xlwings.conf — tells the add-in which Python module holds the functions. "
+        "Leave it as it is.",
+    ),
+]
+
+REFRESH: list[tuple[str, str]] = [
+    ("h2", "Each month"),
+    (
+        "step",
+        "1. Get the fund's daily prices up to the last business day of the month (a CSV "
+        "or .xlsx file with a date column and a price column).",
+    ),
+    (
+        "step",
+        "2. Rebuild the workbook from them with the errdist command, which recalculates "
+        "every cell and saves the results with the file:  errdist refresh --prices "
+        "prices.csv --out risk-2026-12.xlsx",
+    ),
+    (
+        "step",
+        "3. Open the new workbook. Read the Calibration sheet first (is the shape "
+        "plausible? do the two fits agree?), then Fit check, Risk and Backtest.",
+    ),
+    (
+        "step",
+        "4. Audit it when needed: errdist check risk-2026-12.xlsx recalculates every "
+        "formula and lists any cell whose saved value differs.",
+    ),
+    (
+        "wrap",
+        "Working inside the spreadsheet instead: with the add-in installed, paste the new "
+        "prices over the yellow cells of the Prices sheet keeping the same number of rows "
+        "(drop the oldest rows as you add the newest), then recalculate. The ranges in the "
+        "formulas are fixed, so a different number of rows needs the errdist refresh command.",
+    ),
+]
+
+INSTALL: list[tuple[str, str]] = [
+    ("h2", "Installing the add-in (summary — see docs/install.md)"),
+    ("step", "1. Install Python 3.10 or later and the package:  pip install errdist"),
+    ("step", "2. Install the xlwings add-in into the spreadsheet program:  xlwings addin install"),
+    (
+        "step",
+        "3. Open this workbook; the xlwings.conf sheet names the module "
+        "errdist.sheet.xlwings_udfs, so the ERRDIST_ functions load with it.",
+    ),
+    (
+        "step",
+        "4. Recalculate (Ctrl+Alt+F9). Without the add-in the saved values stay on "
+        "screen until a recalculation.",
+    ),
+]
+
+CAUTIONS: list[tuple[str, str]] = [
+    ("h2", "Cautions — read before relying on any figure"),
+    (
+        "bullet",
+        "Model risk: every VaR, Expected Shortfall, p-value and zone here is computed "
+        "under an assumed law. Check the fit every month; figures at 99.5% rest mostly on the "
+        "model, not on the data.",
+    ),
+    (
+        "bullet",
+        "A symmetric law: the error distribution is symmetric about its location. If "
+        "the sample skewness on the Calibration sheet is far from zero, the loss tail may be "
+        "understated.",
+    ),
+    (
+        "bullet",
+        "The i.i.d. assumption: one law for the whole window assumes independent, "
+        "identically distributed returns. Real returns cluster in calm and stressed spells, so "
+        "VaR reacts late to a change of regime; both ten-day rules rest on this assumption.",
+    ),
+    (
+        "bullet",
+        "Estimation error: the shape estimated from a few hundred returns is uncertain; "
+        "the moments fit is sensitive to single extreme returns.",
+    ),
+    ("bullet", "Not investment advice: this is a calculation tool, not a recommendation."),
+    (
+        "bullet",
+        "Your firm's risk policy and your regulators come first. Confidence levels, "
+        "horizons, the 250-day window and the zones here are common defaults; where your policy "
+        "or regulator says otherwise, follow them.",
+    ),
+]
+
+DEMO_NOTE = "The demo fund and its prices are invented and simulated; they are not real data."
+
+
+def blocks() -> list[tuple[str, str]]:
+    """All guide blocks in order."""
+    return PURPOSE + SHEETS + REFRESH + INSTALL + CAUTIONS
