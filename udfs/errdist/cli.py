@@ -44,8 +44,10 @@ def _run_version(args: argparse.Namespace) -> int:
     import pandas
     import scipy
 
-    print(f"errdist {__version__} (numpy {numpy.__version__}, scipy {scipy.__version__}, "
-          f"pandas {pandas.__version__}, Python {sys.version.split()[0]})")
+    print(
+        f"errdist {__version__} (numpy {numpy.__version__}, scipy {scipy.__version__}, "
+        f"pandas {pandas.__version__}, Python {sys.version.split()[0]})"
+    )
     return 0
 
 
@@ -60,28 +62,46 @@ def build_parser() -> argparse.ArgumentParser:
     sub = parser.add_subparsers(dest="command", metavar="COMMAND")
 
     demo = sub.add_parser("demo", help="build and evaluate the demo month's risk workbook")
-    demo.add_argument("--out", default=None, help="workbook to write (default: "
-                      "errdist-demo.xlsx in the current folder)")
+    demo.add_argument(
+        "--out",
+        default=None,
+        help="workbook to write (default: errdist-demo.xlsx in the current folder)",
+    )
     demo.add_argument("--force", action="store_true", help="overwrite an existing file")
     demo.set_defaults(func=_run_demo)
 
     refresh = sub.add_parser("refresh", help="build the month's workbook from a prices file")
     refresh.add_argument("--prices", required=True, help="CSV or xlsx with dates and prices")
     refresh.add_argument("--out", required=True, help="workbook to write (.xlsx)")
-    refresh.add_argument("--as-of", dest="as_of", default=None,
-                         help="last date to use (YYYY-MM-DD); default: the last row")
-    refresh.add_argument("--date-column", dest="date_column", default=None,
-                         help="name of the date column (default: detected)")
-    refresh.add_argument("--price-column", dest="price_column", default=None,
-                         help="name of the price column (default: detected)")
+    refresh.add_argument(
+        "--as-of",
+        dest="as_of",
+        default=None,
+        help="last date to use (YYYY-MM-DD); default: the last row",
+    )
+    refresh.add_argument(
+        "--date-column",
+        dest="date_column",
+        default=None,
+        help="name of the date column (default: detected)",
+    )
+    refresh.add_argument(
+        "--price-column",
+        dest="price_column",
+        default=None,
+        help="name of the price column (default: detected)",
+    )
     refresh.add_argument("--force", action="store_true", help="overwrite an existing file")
     refresh.set_defaults(func=_dispatch("errdist.workbook.commands", "run_refresh"))
 
-    check = sub.add_parser("check", help="recompute every formula of a workbook and "
-                           "list cells whose stored value differs")
+    check = sub.add_parser(
+        "check",
+        help="recompute every formula of a workbook and list cells whose stored value differs",
+    )
     check.add_argument("book", help="workbook to check (.xlsx)")
-    check.add_argument("--tolerance", type=float, default=1e-9,
-                       help="relative tolerance (default 1e-9)")
+    check.add_argument(
+        "--tolerance", type=float, default=1e-9, help="relative tolerance (default 1e-9)"
+    )
     check.set_defaults(func=_dispatch("errdist.workbook.commands", "run_check"))
 
     vba = sub.add_parser("vba", help="write the VBA module (.bas) for manual import")

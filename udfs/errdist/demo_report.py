@@ -29,8 +29,10 @@ def print_demo_fit() -> int:
     """Simulate the demo fund, fit it by moments and by maximum likelihood, print a table."""
     prices = simulate_prices()
     returns = np.diff(np.log(prices["price"].to_numpy()))
-    print(f"{FUND_NAME} (invented, simulated): {len(returns)} daily log returns "
-          f"{prices['date'].iloc[0]:%Y-%m-%d} to {prices['date'].iloc[-1]:%Y-%m-%d}")
+    print(
+        f"{FUND_NAME} (invented, simulated): {len(returns)} daily log returns "
+        f"{prices['date'].iloc[0]:%Y-%m-%d} to {prices['date'].iloc[-1]:%Y-%m-%d}"
+    )
     for line in fit_table_lines(returns):
         print(line)
     print("Install the 'headless' extra for the full workbook: pip install 'errdist[headless]'")
