@@ -488,9 +488,11 @@ def rolling_var(
     A NaN return at day :math:`t` does not stop the forecast for day :math:`t`.
 
     ``method="mle"`` runs the exact maximum-likelihood fit (:func:`errdist.estimate.fit`'s
-    engine), started from the previous window's shape; the start only changes where the
-    search begins, the result is still the exact maximum. ``"moments"`` uses the
-    spreadsheet-statistics fit.
+    engine) on each window from its default start, so every forecast equals
+    ``value_at_risk(confidence, *fit(window))`` exactly — the same figures ERRDIST_FIT gives on
+    that window. (Warm starts from the previous window were measured: no faster with the
+    current engine, and they moved the shape by up to 7e-8 relative in flat likelihoods.)
+    ``"moments"`` uses the spreadsheet-statistics fit.
 
     Parameters
     ----------
@@ -539,7 +541,6 @@ def rolling_var(
     scales = np.empty(n - w)
     shapes = np.empty(n - w)
     finite = ~np.isnan(r)
-    start: float | None = None
     for t in range(w, n):
         seg = r[t - w : t]
         if not finite[t - w : t].all():
@@ -555,8 +556,7 @@ def rolling_var(
                 raise InsufficientDataError(
                     f"the returns in the window before day {t + 1} are all equal: no spread to fit"
                 )
-            m, a, b, _ = _mle_sorted(xs, start)
-            start = b
+            m, a, b, _ = _mle_sorted(xs)
         else:
             try:
                 f = fit(seg, "moments")
