@@ -21,7 +21,7 @@ import numpy as np
 from scipy.special import gammaln
 
 from errdist.errors import DomainError, InputTypeError
-from errdist.mle import SHAPE_MAX, SHAPE_MIN, _mle_sorted
+from errdist.mle import SHAPE_MAX, SHAPE_MIN, _mle_sorted, _sorted
 from errdist.moment_solvers import solve_scale, solve_shape
 from errdist.sample_stats import (
     _clean,
@@ -218,7 +218,7 @@ def fit(
         scale = solve_scale(sd, shape)
         loc = float(np.median(x))
         return _make_fit(loc, scale, shape, "moments", n, n_dropped, _loglik(x, loc, scale, shape))
-    xs = np.sort(x)
+    xs = _sorted(x)
     if xs[0] == xs[-1]:
         _require_spread(xs, 0.0, "data")
     start_shape = start.shape if isinstance(start, Fit) else start
