@@ -61,7 +61,8 @@ set beside the spreadsheet's `KURT` of the data.
 - **Ranges spill.** Every number argument of a function marked *spill* also accepts a range;
   the result spills in the broadcast shape (numpy rules: a column of x against a row of
   shapes gives a table). A blank cell inside such a range leaves its result cell blank and
-  shifts nothing. On Excel without dynamic arrays, select the output range and enter the
+  shifts nothing; blank rows at the end (a whole column such as `A:A`) are left out of the
+  spill. On Excel without dynamic arrays, select the output range and enter the
   formula with Ctrl+Shift+Enter.
 - **Data ranges** (kind *data range*) are read row by row; blank cells are skipped and
   counted; a text, logical or error cell gives `#VALUE!` naming its position

@@ -338,32 +338,47 @@ class Entry:
         blank = np.zeros(shape, dtype=bool)
         for a in arrays:
             blank |= np.isnan(a)
+        any_blank = bool(blank.any())
+        rows = shape[0]
+        if any_blank and blank[-1].all():  # blank rows at the end (A:A) are left out
+            used = np.flatnonzero(~blank.all(axis=1))
+            rows = int(used[-1]) + 1 if used.size else 1
+            blank = blank[:rows]
         filled = list(values)
         for i in idx:
-            v = values[i]
-            if isinstance(v, np.ndarray):
-                if blank.any():
-                    v = np.where(np.isnan(v), float(self.params[i].example), v)
-                filled[i] = np.broadcast_to(v, shape)
+            if isinstance(values[i], np.ndarray):
+                filled[i] = np.broadcast_to(values[i], shape)[:rows]
+        shape = (rows, *shape[1:])
         size = int(np.prod(shape))
-        if self.vectorized:
-            try:
-                result = np.asarray(self._run(filled), dtype=np.float64)
-            except ErrdistError as exc:
-                if size > PER_CELL_LIMIT:
-                    raise cells.sheet_error(exc) from None
-                result = self._per_cell(filled, shape, blank)
-            else:
-                result = np.broadcast_to(result, shape)
-                if blank.any():
-                    result = np.where(blank, np.nan, result)
-        else:
+        if not self.vectorized:
             if size > LOOP_LIMIT:
                 raise SheetError(
                     "#VALUE!",
                     f"{self.name} spills at most {LOOP_LIMIT} cells, asked for {size}",
                 )
-            result = self._per_cell(filled, shape, blank)
+            return cells.to_cells(self._per_cell(filled, shape, blank))
+        args = filled
+        keep = None
+        if any_blank:  # evaluate only the cells that are not blank, then put them back
+            keep = ~blank
+            args = [
+                v[keep] if i in idx and isinstance(v, np.ndarray) else v
+                for i, v in enumerate(filled)
+            ]
+        try:
+            if keep is not None and not keep.any():
+                computed = np.empty(0)
+            else:
+                computed = np.asarray(self._run(args), dtype=np.float64)
+        except ErrdistError as exc:
+            if size > PER_CELL_LIMIT:
+                raise cells.sheet_error(exc) from None
+            return cells.to_cells(self._per_cell(filled, shape, blank))
+        if keep is None:
+            result = np.broadcast_to(computed, shape)
+        else:
+            result = np.full(shape, np.nan)
+            result[keep] = computed
         return cells.to_cells(result)
 
     def _per_cell(self, filled: list[Any], shape: tuple[int, ...], blank: np.ndarray) -> Any:
