@@ -64,6 +64,7 @@ _HALF_WINDOW = 8  # minimum half-width (ranks) of the b <= 1 candidate window
 _SHELLS = ((4.0, 22), (16.0, 11), (256.0, 5), (4096.0, 3))
 
 
+_CALL_COST = 1000  # overhead of one numpy call, in element operations (cost model)
 _ZERO_LOG = -1e300  # stands for ln 0: exp(b·it) = 0 and 0·it = 0, without NaN
 _CACHE_MAX = 2_000_000  # largest n whose scratch arrays are kept between fits
 _MATRIX_MIN = 1 << 16  # size of the scratch area for candidate × observation blocks
@@ -356,10 +357,13 @@ def _s_window(xs: np.ndarray, lo: int, hi: int, b: float, ws: _Workspace) -> np.
     lefts = [int(np.searchsorted(xs, c - rho * w, "left")) for rho, _ in _SHELLS] + [0]
     rights = [int(np.searchsorted(xs, c + rho * w, "right")) for rho, _ in _SHELLS] + [n]
     i0, i1 = lefts[0], rights[0]
-    cost = 6 * cand.size * (i1 - i0) + 3 * n
+    # work in element operations; a numpy call costs about _CALL_COST of them
+    cost = 6 * cand.size * (i1 - i0) + 3 * n + 20 * _CALL_COST
     for z, (_, terms) in enumerate(_SHELLS):
-        cost += 2 * terms * (lefts[z] - lefts[z + 1] + rights[z + 1] - rights[z])
-    if cost >= 6 * cand.size * n:  # direct evaluation is cheaper
+        size = lefts[z] - lefts[z + 1] + rights[z + 1] - rights[z]
+        if size:
+            cost += 2 * terms * (size + _CALL_COST) + 6 * _CALL_COST
+    if cost >= 6 * cand.size * n + 8 * _CALL_COST:  # direct evaluation is cheaper
         return _s_at(xs, np.arange(lo, hi), b, ws)
     kmax = _SHELLS[0][1]
     moments = np.zeros(kmax + 1)
