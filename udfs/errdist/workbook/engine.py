@@ -317,6 +317,8 @@ def register_functions(
         The names registered (each also under ``_XLUDF.`` and ``_XLFN.`` prefixes).
     """
     functions, array_cls, error, sh = _formulas_runtime()
+    from formulas.functions import wrap_func
+
     if names is None or call is None:
         registry = _catalog_registry()
         if registry is None:
@@ -325,10 +327,10 @@ def register_functions(
     done = []
     for name in names:
         upper = name.upper()
-        f = _make_cell_function(upper, call, array_cls, error, sh)
-        from formulas.functions import wrap_func
-
-        wrapped = wrap_func(f)
+        if _REGISTERED.get(upper) is call and upper in functions:
+            done.append(upper)
+            continue
+        wrapped = wrap_func(_make_cell_function(upper, call, array_cls, error, sh))
         for key in (upper, "_XLUDF." + upper, "_XLFN." + upper):
             functions[key] = wrapped
         _REGISTERED[upper] = call
@@ -525,8 +527,7 @@ def evaluate_details(path: str | os.PathLike[str]) -> Evaluation:
     safety.inspect_xlsx(path)
     safety.defuse_xml()
     functions, _array, _error, sh = _formulas_runtime()
-    if not _REGISTERED:
-        register_functions()
+    register_functions()  # the catalog's functions (cheap when already registered)
 
     def known(name: str) -> bool:
         return name in functions
