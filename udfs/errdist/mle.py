@@ -38,7 +38,7 @@ import math
 import threading
 
 import numpy as np
-from scipy.special import gammaln, polygamma, psi
+from scipy.special import gammaln, psi, zeta
 
 from errdist.moment_solvers import solve_shape
 
@@ -65,6 +65,7 @@ _SHELLS = ((4.0, 22), (16.0, 11), (256.0, 5), (4096.0, 3))
 
 
 _CALL_COST = 1000  # overhead of one numpy call, in element operations (cost model)
+_TINY = 5e-324
 _ZERO_LOG = -1e300  # stands for ln 0: exp(b·it) = 0 and 0·it = 0, without NaN
 _CACHE_MAX = 2_000_000  # largest n whose scratch arrays are kept between fits
 _MATRIX_MIN = 1 << 16  # size of the scratch area for candidate × observation blocks
@@ -124,8 +125,15 @@ def _sorted(x: np.ndarray) -> np.ndarray:
 
 
 def _dot(a: np.ndarray, b: np.ndarray) -> float:
-    """Σ aᵢbᵢ without BLAS (a threaded BLAS dot stalls for milliseconds on a busy machine)."""
+    """Σ aᵢbᵢ; long vectors avoid BLAS (a threaded dot stalls for milliseconds when busy)."""
+    if a.size < 8192:
+        return float(np.dot(a, b))
     return float(np.einsum("i,i->", a, b))
+
+
+def _trigamma(x: float) -> float:
+    """ψ'(x) = ζ(2, x) (Hurwitz zeta; much cheaper to call than polygamma)."""
+    return float(zeta(2.0, x))
 
 
 def _profile_value(s0: float, n: int, b: float) -> float:
@@ -184,7 +192,7 @@ def _shape_given_loc(lg: np.ndarray, n: int, b0: float, ws: _Workspace) -> float
             u_hi, hi_tested = u, True
             if u <= _U_MIN:
                 return SHAPE_MIN
-        guu = -c * inv - float(polygamma(1, inv)) * inv * inv + inv + r1 - b * var
+        guu = -c * inv - _trigamma(inv) * inv * inv + inv + r1 - b * var
         un = u - gu / guu if guu < 0.0 else math.nan
         if not (u_lo < un < u_hi):
             if not (un < u_hi) and not hi_tested:
@@ -200,10 +208,16 @@ def _shape_given_loc(lg: np.ndarray, n: int, b0: float, ws: _Workspace) -> float
     return math.exp(u)
 
 
-def _pow(a: np.ndarray, b: float) -> np.ndarray:
-    """a**b for a ≥ 0 as exp(b·ln a), in place (vectorised exp/log are faster than pow)."""
-    with np.errstate(divide="ignore"):
-        np.log(a, out=a)
+def _pow(a: np.ndarray, b: float, zeros: bool = True) -> np.ndarray:
+    """a**b for a ≥ 0 as exp(b·ln a), in place (vectorised exp/log are faster than pow).
+
+    With ``zeros`` the entries 0 are first raised to the smallest double (5e-324), whose
+    power is 0 for b ≥ 1 and below 1e-32 for b ≥ 0.1: every candidate location carries
+    the same such self-term, so comparisons between candidates are unaffected.
+    """
+    if zeros:
+        np.maximum(a, _TINY, out=a)
+    np.log(a, out=a)
     a *= b
     return np.exp(a, out=a)
 
@@ -300,7 +314,7 @@ def _joint_newton(xs: np.ndarray, m: float, b: float, ws: _Workspace) -> tuple[f
         c = float(psi(inv)) + math.log(b * s0 / n)
         g_u = 1.0 + c * inv - r1
         g_m = t / s0
-        h_uu = -c * inv - float(polygamma(1, inv)) * inv * inv + inv + r1 - b * (s2 / s0 - r1 * r1)
+        h_uu = -c * inv - _trigamma(inv) * inv * inv + inv + r1 - b * (s2 / s0 - r1 * r1)
         h_mm = -(b - 1.0) * uu / s0 + b * g_m * g_m
         h_um = b * v / s0 - b * r1 * g_m
         det = h_mm * h_uu - h_um * h_um
@@ -375,7 +389,7 @@ def _s_window(xs: np.ndarray, lo: int, hi: int, b: float, ws: _Workspace) -> np.
         d = np.concatenate((left, right), out=ws.d[:size])
         d -= c
         r = np.divide(1.0, d, out=ws.lg[:size])
-        t = _pow(np.abs(d, out=ws.p[:size]), b)
+        t = _pow(np.abs(d, out=ws.p[:size]), b, zeros=False)
         moments[0] += t.sum()
         for k in range(1, terms + 1):
             t *= r
@@ -386,7 +400,7 @@ def _s_window(xs: np.ndarray, lo: int, hi: int, b: float, ws: _Workspace) -> np.
     for k in range(1, kmax + 1):
         beta *= -(b - k + 1.0) / k  # C(b, k)·(−1)^k
         coef[k] = beta * moments[k]
-    far = np.polynomial.polynomial.polyval(cand - c, coef)
+    far = np.vander(cand - c, kmax + 1, increasing=True) @ coef
     near = xs[i0:i1]
     size = cand.size * near.size
     buf = ws.mat[:size] if size <= ws.mat.size else np.empty(size)
@@ -496,6 +510,9 @@ def _finish(
 ) -> tuple[float, float, float, float]:
     n = xs.size
     a = np.subtract(xs, m, out=ws.d)
-    s0 = float(_pow(np.abs(a, out=a), b).sum())
+    p = _pow(np.abs(a, out=a), b)
+    j, k = _ties(xs, m)
+    p[j:k] = 0.0
+    s0 = float(p.sum())
     scale = (b * s0 / n) ** (1.0 / b)
     return m, scale, b, _profile_value(s0, n, b)
