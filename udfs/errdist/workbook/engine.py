@@ -367,9 +367,20 @@ def formula_problems(formula: str, known: Callable[[str], bool]) -> tuple[list[s
             reasons.append(f"function {raw} is not evaluated correctly by the headless engine")
         elif not known(name):
             reasons.append(f"function {raw} is not known to the headless engine")
-        if name in VOLATILE_FUNCTIONS:
+        if name in VOLATILE_FUNCTIONS or name.removeprefix("_XLUDF.") in _volatile_catalog():
             volatile = True
     return list(dict.fromkeys(reasons)), volatile
+
+
+def _volatile_catalog() -> frozenset[str]:
+    """Catalog functions marked volatile (e.g. random draws without a seed)."""
+    try:
+        from errdist.sheet import catalog
+    except ImportError:
+        return frozenset()
+    entries = getattr(catalog, "CATALOG", {})
+    values = entries.values() if isinstance(entries, dict) else entries
+    return frozenset(str(e.name).upper() for e in values if getattr(e, "volatile", False))
 
 
 def _dynamic_anchors(path: Path, sheet_parts: dict[str, str]) -> dict[str, set[str]]:
