@@ -489,16 +489,23 @@ def _mle_sorted(
         m, b, ok = _joint_newton(xs, m, b, ws)
         if ok:
             return _finish(xs, m, b, ws)
-    searched = False
+    searched_b = math.nan  # shape of the last full-window search
+    if b <= 1.0:  # heavy tails expected: search the location at the start shape first
+        m = _loc_discrete(xs, b, m, ws, _search_window(n, b))
+        searched_b = b
     for _ in range(100):
         b = _shape_given_loc(_log_dist(xs, m, ws), n, b, ws)
         if b > 1.0:
             m_new = _loc_smooth(xs, b, m, tol, ws)
         else:
-            # first search with the full window, re-checks with a quarter of it
+            # full window unless one was searched at a shape within 5 %; then a re-check
+            # of the neighbourhood with a quarter of the window suffices
             half = _search_window(n, b)
-            m_new = _loc_discrete(xs, b, m, ws, max(_HALF_WINDOW, half // 4) if searched else half)
-            searched = True
+            if abs(b - searched_b) <= 0.05 * b:
+                half = max(_HALF_WINDOW, half // 4)
+            else:
+                searched_b = b
+            m_new = _loc_discrete(xs, b, m, ws, half)
         if abs(m_new - m) <= tol:
             break
         m = m_new
