@@ -4,7 +4,7 @@
 2. histogram vs fitted density (FREQUENCY counts as densities, ERRDIST_PDF and the normal
    density at the bin midpoints);
 3. QQ plot: fitted quantiles against the sorted returns, with the 45° line;
-4. returns against the rolling VaR, exceptions marked (Backtest sheet).
+4. returns against the rolling VaR, exceptions marked as red columns (Backtest sheet).
 
 Charts are XlsxWriter chart specifications (:class:`~errdist.workbook.layout.ChartSpec`); their
 data caches come from the cached values the writer puts in the source cells.
@@ -18,7 +18,7 @@ from errdist.workbook.layout import ChartSpec, SheetPlan, absref
 
 ROWS_PER_PAGE = 36
 """Rows of the Charts sheet per printed page (landscape A4, one chart a page)."""
-CHART_SIZE = (1000, 600)
+CHART_SIZE = (1000, 640)
 """Chart size in pixels (width, height)."""
 
 _GRID = {"visible": True, "line": {"color": "#D9D9D9", "width": 0.5}}
@@ -55,8 +55,8 @@ def _ecdf(keys: Mapping[str, str], fitcheck: str) -> ChartSpec | None:
                 "marker": {
                     "type": "circle",
                     "size": 3,
-                    "border": {"color": "#7F7F7F"},
-                    "fill": {"color": "#BFBFBF"},
+                    "border": {"color": "#2F5597"},
+                    "fill": {"color": "#9DC3E6"},
                 },
                 "line": {"none": True},
             },
@@ -65,10 +65,10 @@ def _ecdf(keys: Mapping[str, str], fitcheck: str) -> ChartSpec | None:
                 "categories": x,
                 "values": "=" + absref(fitcheck, f"N{a}", f"N{b}"),
                 "marker": {"type": "none"},
-                "line": {"color": "#C00000", "width": 1.75},
+                "line": {"color": "#C00000", "width": 2},
             },
         ],
-        x_axis=_axis("Daily log return", "0.0%"),
+        x_axis=_axis("Daily log return", "0.0%", crossing="min"),
         y_axis=_axis("Cumulative probability", "0.0", min=0, max=1, major_unit=0.1),
         size=CHART_SIZE,
     )
@@ -148,10 +148,10 @@ def _qq(keys: Mapping[str, str], fitcheck: str) -> ChartSpec | None:
                 "categories": "=" + line,
                 "values": "=" + line,
                 "marker": {"type": "none"},
-                "line": {"color": "#C00000", "width": 1.25},
+                "line": {"color": "#C00000", "width": 2},
             },
         ],
-        x_axis=_axis("Fitted quantile (error distribution)", "0.0%"),
+        x_axis=_axis("Fitted quantile (error distribution)", "0.0%", crossing="min"),
         y_axis=_axis("Sorted daily log return", "0.0%"),
         size=CHART_SIZE,
     )
@@ -181,17 +181,18 @@ def _returns_var(keys: Mapping[str, str], backtest: str) -> ChartSpec | None:
                 "line": {"color": "#C00000", "width": 1.5},
                 "marker": {"type": "none"},
             },
+        ],
+        # Exceptions as thin red columns down to the return (0 on other days: no column),
+        # which every spreadsheet program draws the same way.
+        secondary_type={"type": "column"},
+        secondary_series=[
             {
                 "name": "Exception (loss beyond VaR)",
                 "categories": cats,
                 "values": "=" + absref(backtest, f"E{a}", f"E{b}"),
-                "line": {"none": True},
-                "marker": {
-                    "type": "diamond",
-                    "size": 7,
-                    "border": {"color": "#7F0000"},
-                    "fill": {"color": "#FF0000"},
-                },
+                "fill": {"color": "#FF0000"},
+                "border": {"none": True},  # a border would draw the zero days as a line
+                "gap": 0,
             },
         ],
         x_axis=_axis(

@@ -821,7 +821,10 @@ def _backtest(plan: Plan, ctx: _Ctx) -> None:
         rng_b, rng_c = f"B{f0}:B{last}", f"C{f0}:C{last}"
         m = last - f0 + 1
         sp.spill(f"D{f0}", m, 1, f"=IF(-{rng_b}>{rng_c},1,0)", "int")
-        sp.spill(f"E{f0}", m, 1, f"=IF(D{f0}:D{last}=1,{rng_b},NA())", "pct3")
+        # 0 rather than NA() off the exception days: the chart draws these as columns, and
+        # a zero-height column is invisible in every spreadsheet program (LibreOffice plots
+        # #N/A as 0 in line charts, which would draw a band of markers along the axis).
+        sp.spill(f"E{f0}", m, 1, f"=IF(D{f0}:D{last}=1,{rng_b},0)", "pct3")
         sp.spill(f"F{f0}", m, 1, f"=-{rng_c}", "pct3")
         ctx.keys["bt_first"] = str(f0)
         ctx.keys["bt_last"] = str(last)

@@ -306,6 +306,9 @@ def write_plan(
         }
     )
     wb.set_calc_mode("auto")
+    # No full recalculation on load: the cached values are right, and a spreadsheet without
+    # the add-in would otherwise replace every ERRDIST_ result by #NAME? as the file opens.
+    wb.calc_on_load = False
     fmts = {name: wb.add_format(props) for name, props in FORMATS.items()}
     for sp in plan.sheets:
         ws = wb.add_worksheet(sp.name, worksheet_class=_SpillWorksheet)
