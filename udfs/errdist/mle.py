@@ -393,7 +393,7 @@ def _s_window(xs: np.ndarray, lo: int, hi: int, b: float, ws: _Workspace) -> np.
             continue
         d = np.concatenate((left, right), out=ws.d[:size])
         d -= c
-        r = np.divide(1.0, d, out=ws.lg[:size])
+        r = np.divide(1.0, d, out=ws.q[:size])  # ws.lg is kept for _finish
         t = _pow(np.abs(d, out=ws.p[:size]), b, zeros=False)
         moments[0] += t.sum()
         for k in range(1, terms + 1):
@@ -499,7 +499,8 @@ def _mle_sorted(
         m = _loc_discrete(xs, b, m, ws, _search_window(n, b))
         searched_b = b
     for _ in range(100):
-        b = _shape_given_loc(_log_dist(xs, m, ws), n, b, ws)
+        lg = _log_dist(xs, m, ws)  # kept intact by the location searches
+        b = _shape_given_loc(lg, n, b, ws)
         if b > 1.0:
             m_new = _loc_smooth(xs, b, m, tol, ws)
         else:
@@ -512,19 +513,19 @@ def _mle_sorted(
                 searched_b = b
             m_new = _loc_discrete(xs, b, m, ws, half)
         if abs(m_new - m) <= tol:
-            break
+            return _finish(xs, m, b, ws, lg)
         m = m_new
     return _finish(xs, m, b, ws)
 
 
 def _finish(
-    xs: np.ndarray, m: float, b: float, ws: _Workspace
+    xs: np.ndarray, m: float, b: float, ws: _Workspace, lg: np.ndarray | None = None
 ) -> tuple[float, float, float, float]:
+    """(m, scale, b, ℓ) with the closed-form scale; ``lg``: ln|x−m| if already at hand."""
     n = xs.size
-    a = np.subtract(xs, m, out=ws.d)
-    p = _pow(np.abs(a, out=a), b)
-    j, k = _ties(xs, m)
-    p[j:k] = 0.0
-    s0 = float(p.sum())
+    if lg is None:
+        lg = _log_dist(xs, m, ws)
+    p = np.multiply(lg, b, out=ws.p)
+    s0 = float(np.exp(p, out=p).sum())
     scale = (b * s0 / n) ** (1.0 / b)
     return m, scale, b, _profile_value(s0, n, b)
