@@ -231,13 +231,14 @@ def _loc_smooth(xs: np.ndarray, b: float, m0: float, tol: float, ws: _Workspace)
     """Minimiser of S_b(m) for b > 1: root of T(m) = Σ sign(x−m)|x−m|^(b−1) (decreasing).
 
     Newton steps (T' = −(b−1)Σ|x−m|^(b−2)) safeguarded by a bracket of the root and by
-    false position when Newton does not at least halve the step.
+    false position (Illinois variant) when Newton does not at least halve the step.
     """
     lo, hi = float(xs[0]), float(xs[-1])
     t_lo, t_hi = math.inf, -math.inf
     m = min(max(m0, lo), hi)
     bm1 = b - 1.0
     last_step = math.inf
+    side = 0
     ad, q = ws.d, ws.p
     for _it in range(200):
         j, k = _ties(xs, m)
@@ -253,8 +254,14 @@ def _loc_smooth(xs: np.ndarray, b: float, m0: float, tol: float, ws: _Workspace)
             return m
         if t > 0.0:
             lo, t_lo = m, t
+            if side > 0:  # Illinois: the other end stayed twice, halve its weight
+                t_hi *= 0.5
+            side = 1
         else:
             hi, t_hi = m, t
+            if side < 0:
+                t_lo *= 0.5
+            side = -1
         np.divide(q, ad, out=q)
         u = float(q.sum())
         mn = m + t / (bm1 * u) if u > 0.0 else math.nan
@@ -284,12 +291,14 @@ def _joint_newton(xs: np.ndarray, m: float, b: float, ws: _Workspace) -> tuple[f
         ∂u = 1 + c/b − S1/S0, ∂u∂u = −c/b − ψ'(1/b)/b² + 1/b + S1/S0 − b(S2/S0 − (S1/S0)²),
         ∂m∂u = b·V/S0 − b·S1·T/S0².
 
-    Returns (m, b, converged). Gives up (converged False) when the Hessian is not negative
-    definite, the likelihood drops, or the step leaves b > 1 or the shape bounds; the
-    caller then continues with the coordinate-wise search from the returned point.
+    A step that lowers ℓ is halved (up to 6 times). Returns (m, b, converged). Gives up
+    (converged False) when the Hessian is not negative definite, halving does not help, or
+    the step leaves b > 1 or the shape bounds; the caller then continues with the
+    coordinate-wise search from the returned point.
     """
     n = xs.size
     best = -math.inf
+    base_m, base_b, step_m, step_u, halvings = m, b, 0.0, 0.0, 0
     d, lg, p, w = ws.d, ws.lg, ws.p, ws.q
     for _ in range(30):
         j, k = _ties(xs, m)
@@ -312,8 +321,17 @@ def _joint_newton(xs: np.ndarray, m: float, b: float, ws: _Workspace) -> tuple[f
         uu = float(w.sum())
         ll = _profile_value(s0, n, b)
         if not ll >= best - 1e-13 * abs(best):
-            return m, b, False
-        best = ll
+            # the full step lowered ℓ (near b = 1 the location direction is almost
+            # piecewise linear): halve it, from the last accepted point
+            if halvings >= 6:
+                return base_m, base_b, False
+            halvings += 1
+            step_m *= 0.5
+            step_u *= 0.5
+            m, b = base_m + step_m, base_b * math.exp(step_u)
+            continue
+        halvings = 0
+        best, base_m, base_b = ll, m, b
         inv = 1.0 / b
         r1 = s1 / s0
         c = float(psi(inv)) + math.log(b * s0 / n)
@@ -330,6 +348,7 @@ def _joint_newton(xs: np.ndarray, m: float, b: float, ws: _Workspace) -> tuple[f
         u = math.log(b) + du
         if not (0.0 < u and _U_MIN < u < _U_MAX):
             return m, b, False
+        step_m, step_u = dm, du
         m += dm
         b = math.exp(u)
         scale = (b * s0 / n) ** inv
