@@ -211,7 +211,7 @@ def fit(
         if k <= -1.2:
             raise DomainError(
                 f"sample excess kurtosis is {k:.6g} <= -1.2: no error distribution has "
-                "kurtosis that low, so the moments fit is impossible; use the maximum-likelihood fit (method "mle")"
+                "kurtosis that low, so the moments fit is impossible; use the maximum-likelihood fit (method 'mle')"
             )
         shape = solve_shape(k)
         sd = _std(x, _mean(x))
