@@ -208,6 +208,7 @@ def test_chart_pages_are_drawn(lo_run) -> None:
     assert sorted(pages) == list(range(1, CHART_PAGES + 1)), pages
     assert all("#NAME?" not in texts[p - 1] for p in pages.values())
     ARTIFACTS.mkdir(parents=True, exist_ok=True)
+    shutil.copyfile(pdf, ARTIFACTS / "template.pdf")
     measures = {}
     for k, p in pages.items():
         stem = ARTIFACTS / f"chart-{k}"

@@ -45,6 +45,9 @@ class Entry:
         Size of a spill's result (1 x 1 for every other kind).
     span : int
         For text: the number of columns merged into one cell (1: no merge).
+    head_rows : int
+        For a spill: leading rows of the result that are a header (shown in the header
+        format).
     """
 
     row: int
@@ -56,6 +59,7 @@ class Entry:
     rows: int = 1
     cols: int = 1
     span: int = 1
+    head_rows: int = 0
 
     @property
     def a1(self) -> str:
@@ -161,8 +165,11 @@ class SheetPlan:
         row, col = xl_cell_to_rowcol(cell)
         return self._add(Entry(row, col, "formula", formula=formula, fmt=fmt))
 
-    def spill(self, cell: str, rows: int, cols: int, formula: str, fmt: str = "") -> Entry:
-        """Put a dynamic-array formula at ``cell`` whose result fills ``rows`` x ``cols``."""
+    def spill(
+        self, cell: str, rows: int, cols: int, formula: str, fmt: str = "", head_rows: int = 0
+    ) -> Entry:
+        """Put a dynamic-array formula at ``cell`` whose result fills ``rows`` x ``cols``
+        (the first ``head_rows`` rows of it a header)."""
         if rows < 1 or cols < 1:
             raise ValueError(f"a spill needs at least one cell, got {rows} x {cols} at {cell}")
         row, col = xl_cell_to_rowcol(cell)

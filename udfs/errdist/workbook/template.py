@@ -246,10 +246,10 @@ def _guide(plan: Plan, ctx: _Ctx) -> None:
     if "ERRDIST_VERSION" in ctx.funcs:
         key_rows.append(
             (
-                "errdist add-in version",
+                "Add-in that calculated the values",
                 "=ERRDIST_VERSION()",
-                "key_text",
-                "the add-in that calculated the saved values",
+                "label",
+                "",
             )
         )
     for label, formula, fmt, note in key_rows:
@@ -356,7 +356,7 @@ def _calibration(plan: Plan, ctx: _Ctx) -> None:
         for c in "EFG":
             sp.text(f"{c}4", "", "h2")
         sp.text("D5", "Method", "head")
-        sp.spill("E5", 2, 3, f'=ERRDIST_FIT({r},"moments",TRUE)', "num")
+        sp.spill("E5", 2, 3, f'=ERRDIST_FIT({r},"moments",TRUE)', "num", head_rows=1)
         sp.text("D6", "Moments (KURT, STDEV.S, MEDIAN)", "label")
         sp.spill("E7", 1, 3, f'=ERRDIST_FIT({r},"mle")', "num")
         sp.text("D7", "Maximum likelihood", "label_b")
@@ -511,7 +511,7 @@ def _risk(plan: Plan, ctx: _Ctx) -> None:
         return
     sp = plan.add_sheet(RISK)
     sp.landscape = True
-    sp.width("A", 26)
+    sp.width("A", 34)
     sp.width("B", 14, "G")
     _heading(
         sp,
@@ -572,6 +572,7 @@ def _risk(plan: Plan, ctx: _Ctx) -> None:
             sp.text(f"{c}{top}", "", "h2")
         for j, h in enumerate(heads):
             sp.text(cell(top, j), h, "head")
+        sp.row_heights[top] = 32
         for i, conf in enumerate(CONFIDENCES):
             rr = top + 2 + i
             conf_cell = f"$A${rr}"
@@ -614,6 +615,7 @@ def _risk(plan: Plan, ctx: _Ctx) -> None:
         sp.text(f"{c}{top}", "", "h2")
     for j, h in enumerate(heads):
         sp.text(cell(top, j), h, "head")
+    sp.row_heights[top] = 32
     for i in range(len(CONFIDENCES)):
         rr = top + 2 + i
         sp.formula(f"A{rr}", f"=A{16 + i}", "pct1")
@@ -672,7 +674,7 @@ def _fit_check(plan: Plan, ctx: _Ctx) -> None:
         rows = _call_entry("ERRDIST_GOF", *args)
         law = f"B{row + 1},C{row + 1},D{row + 1}"
         f = f'=ERRDIST_GOF({r},{law},"{GOF_STATISTIC}",{GOF_SAMPLES},{GOF_SEED})'
-        sp.spill(f"A{row + 2}", len(rows), len(rows[0]), f, "num4")
+        sp.spill(f"A{row + 2}", len(rows), len(rows[0]), f, "gen")
         sp.text(
             f"D{row + 2}",
             "Anderson-Darling statistic A²; its p-value comes from "
@@ -699,7 +701,14 @@ def _fit_check(plan: Plan, ctx: _Ctx) -> None:
         for c in "BCDEFGHIJ":
             sp.text(f"{c}{row}", "", "h2")
         rows = _call_entry("ERRDIST_COMPARE", ctx.returns.reshape(-1, 1).tolist(), True)
-        sp.spill(f"A{row + 1}", len(rows), len(rows[0]), f"=ERRDIST_COMPARE({r},TRUE)", "num4")
+        sp.spill(
+            f"A{row + 1}",
+            len(rows),
+            len(rows[0]),
+            f"=ERRDIST_COMPARE({r},TRUE)",
+            "gen",
+            head_rows=1,
+        )
         row += len(rows) + 2
     # Histogram against the fitted density.
     row = _histogram(sp, ctx, row, loc, scale, shape)
@@ -708,7 +717,12 @@ def _fit_check(plan: Plan, ctx: _Ctx) -> None:
         for c in "MNO":
             sp.text(f"{c}4", "", "h2")
         e = sp.spill(
-            "L5", ctx.n + 1, 4, f"=ERRDIST_EMPIRICAL({r},{loc},{scale},{shape},TRUE)", "num"
+            "L5",
+            ctx.n + 1,
+            4,
+            f"=ERRDIST_EMPIRICAL({r},{loc},{scale},{shape},TRUE)",
+            "num",
+            head_rows=1,
         )
         ctx.keys["emp_first_row"] = str(e.row + 2)
         ctx.keys["emp_last_row"] = str(e.row + 1 + ctx.n)
@@ -810,6 +824,7 @@ def _backtest(plan: Plan, ctx: _Ctx) -> None:
     heads = ("Date", "Return", "VaR forecast", "Exception", "Exception return", "−VaR")
     for j, h in enumerate(heads):
         sp.text(cell(top - 1, j), h, "head")
+    sp.row_heights[top - 1] = 32
     sp.freeze = (top, 0)
     first, last = top + 1, top + n
     f0 = first + BACKTEST_WINDOW  # first row with a forecast
@@ -874,7 +889,8 @@ def _backtest(plan: Plan, ctx: _Ctx) -> None:
                     len(rows_bt),
                     len(rows_bt[0]),
                     f"=ERRDIST_BACKTEST(B{r0}:B{last},C{r0}:C{last},$C$5,TRUE)",
-                    "num4",
+                    "gen",
+                    head_rows=1,
                 )
                 for i, rr in enumerate(rows_bt):
                     if col == "K" and str(rr[0]).strip().lower() == "zone":

@@ -206,15 +206,25 @@ def _write_entry(
         value = normalise_value(values.get((sheet, e.a1), 0.0)) if values is not None else 0
         ws.write_formula(e.row, e.col, e.formula, fmt, "" if value is None else value)
     elif e.kind == "spill":
+        head = fmts["head"] if e.head_rows else None
         anchor = normalise_value(values.get((sheet, e.a1), 0.0)) if values is not None else 0
-        ws.write_dynamic_array_formula(e.ref, e.formula, fmt, "" if anchor is None else anchor)
+        ws.write_dynamic_array_formula(
+            e.ref, e.formula, head or fmt, "" if anchor is None else anchor
+        )
         if values is None:
+            # First pass, for the engine: the anchor alone. XlsxWriter pads the rest of the
+            # range with zeros; drop them, the engine reads the range from the anchor's ref
+            # and parsing them only costs time.
+            for r, c in e.cells():
+                if (r, c) != (e.row, e.col):
+                    ws.table[r].pop(c, None)
             return
         for r, c in e.cells():
             if (r, c) == (e.row, e.col):
                 continue
+            cell_fmt = head if r < e.row + e.head_rows else fmt
             key = (sheet, xl_rowcol_to_cell_fast(r, c))
-            _write_value(ws, r, c, normalise_value(values.get(key, "")), fmt)
+            _write_value(ws, r, c, normalise_value(values.get(key, "")), cell_fmt)
     else:  # pragma: no cover - Entry kinds are closed
         raise ValueError(f"unknown entry kind {e.kind!r}")
 
