@@ -61,3 +61,34 @@ def test_catalog_functions_in_a_workbook(tmp_path):
     ll_ref = stats.gennorm.logpdf(data, b_ref, loc_ref, scale_ref).sum()
     assert ll_ours >= ll_ref - 1e-7
     assert shape == pytest.approx(b_ref, rel=0.05)
+
+
+def test_omitted_arguments_mean_not_given(tmp_path):
+    """``f(a,,b)``: the spreadsheet (through xlwings) passes "not given" for the empty slot,
+    so the parameter's default applies; ``formulas`` alone would read it as 0."""
+    path = tmp_path / "omitted.xlsx"
+    wb = xlsxwriter.Workbook(str(path), {"use_future_functions": True})
+    ws = wb.add_worksheet("S")
+    ws.write_formula("A1", '=ERRDIST_VAR(0.99,0,1,2,10,,"iid")')
+    ws.write_formula("A2", "=ERRDIST_VAR(0.99,0,1,2,,)")
+    ws.write_formula("A3", "=ERRDIST_VAR(0.99,0,1,2,10,0)")  # a real 0 stays 0: #NUM!
+    ws.write_formula("A4", "=SUM(1,,2)")  # built-ins keep the spreadsheet's rule (empty = 0)
+    wb.close()
+    v = engine.evaluate_workbook(path)
+    # Normal law (shape 2, scale 1 -> sigma = 1/sqrt(2)); for the normal both horizon rules
+    # give sqrt(10) * sigma * z_0.99 (scipy.stats.norm as the reference).
+    sigma = 1 / np.sqrt(2)
+    assert v[("S", "A1")] == pytest.approx(np.sqrt(10) * sigma * stats.norm.ppf(0.99), rel=1e-6)
+    assert v[("S", "A2")] == pytest.approx(sigma * stats.norm.ppf(0.99), rel=1e-12)
+    assert v[("S", "A3")] == "#NUM!"
+    assert v[("S", "A4")] == 3
+
+
+def test_mark_omitted_arguments_skips_strings_and_builtins():
+    mark = engine.mark_omitted_arguments
+    lit = f'"{engine.OMITTED}"'
+    assert mark("=ERRDIST_FIT(A1:A9,,TRUE)") == f"=ERRDIST_FIT(A1:A9,{lit},TRUE)"
+    assert mark("=ERRDIST_VERSION()") == "=ERRDIST_VERSION()"
+    assert mark("=ERRDIST_CDF(IF(A1,1,),0,1,2)") == "=ERRDIST_CDF(IF(A1,1,),0,1,2)"
+    assert mark('=ERRDIST_X("a,,b",,{1,,2})') == f'=ERRDIST_X("a,,b",{lit},{{1,,2}})'
+    assert mark("=SUM(1,,2)") == "=SUM(1,,2)"

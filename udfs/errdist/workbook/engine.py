@@ -59,6 +59,14 @@ from errdist.workbook import safety
 log = logging.getLogger(__name__)
 
 ERROR_CODES = ("#NULL!", "#DIV/0!", "#VALUE!", "#REF!", "#NAME?", "#NUM!", "#N/A")
+
+#: String literal that stands in for an omitted argument of a catalog function. ``formulas``
+#: parses ``=ERRDIST_VAR(c,m,a,b,10,,"iid")`` with the empty slot as 0, while the spreadsheet
+#: with xlwings passes "not given"; :func:`mark_omitted_arguments` writes this literal into
+#: such slots before compiling, and the cell wrapper turns it back into ``None`` (not given).
+OMITTED = "__errdist_omitted__"
+_OMITTED_LITERAL = f'"{OMITTED}"'
+_CATALOG_CALL = re.compile(r"(?:_xludf\.|_xlfn\.)?ERRDIST_[A-Z0-9_]*\s*\(", re.IGNORECASE)
 """Spreadsheet error values, as strings."""
 
 UNRELIABLE_FUNCTIONS = frozenset(
@@ -181,6 +189,8 @@ def _cell_arg(value: Any, sh: Any) -> Any:
     """One value as the engine passes it -> the catalog's cell value (float/str/bool/None)."""
     if value is sh.EMPTY or value is None:
         return None
+    if isinstance(value, str) and value == OMITTED:
+        return None  # an omitted argument: the catalog applies the parameter's default
     if isinstance(value, (bool, np.bool_)):
         return bool(value)
     if isinstance(value, str):  # XlError is a str subclass: pass its code as text
@@ -342,6 +352,63 @@ def register_functions(
 # Scanning formulas before evaluation
 
 
+def _last_significant(out: list[str]) -> str:
+    """Last non-blank character written so far ("" at the start)."""
+    for chunk in reversed(out):
+        stripped = chunk.rstrip()
+        if stripped:
+            return stripped[-1]
+    return ""
+
+
+def mark_omitted_arguments(formula: str) -> str:
+    """Write :data:`OMITTED` into the empty argument slots of catalog function calls.
+
+    ``=ERRDIST_VAR(A1,B1,C1,D1,10,,"iid")`` becomes
+    ``=ERRDIST_VAR(A1,B1,C1,D1,10,"__errdist_omitted__","iid")``; a trailing empty slot
+    (``f(a,)``) is marked too; ``f()`` is left alone. Built-in functions keep the
+    spreadsheet's own rule (an empty argument is 0). String literals, quoted sheet names and
+    array constants (``{1,2}``) are skipped.
+    """
+    if "ERRDIST_" not in formula.upper():
+        return formula
+    out: list[str] = []
+    stack: list[bool] = []  # one entry per open "(" or "{": True for a catalog call
+    i, n = 0, len(formula)
+    while i < n:
+        ch = formula[i]
+        if ch in "\"'":  # string literal or quoted sheet name: copy through its end
+            j = i + 1
+            while j < n:
+                if formula[j] == ch:
+                    if j + 1 < n and formula[j + 1] == ch:
+                        j += 2
+                        continue
+                    break
+                j += 1
+            out.append(formula[i : j + 1])
+            i = j + 1
+            continue
+        call = _CATALOG_CALL.match(formula, i)
+        if call and (i == 0 or not (formula[i - 1].isalnum() or formula[i - 1] in "._")):
+            out.append(call.group(0))
+            stack.append(True)
+            i = call.end()
+            continue
+        if ch in "({":
+            stack.append(False)
+        elif ch in ")}":
+            if ch == ")" and stack and stack[-1] and _last_significant(out) == ",":
+                out.append(_OMITTED_LITERAL)
+            if stack:
+                stack.pop()
+        elif ch == "," and stack and stack[-1] and _last_significant(out) in "(,":
+            out.append(_OMITTED_LITERAL)
+        out.append(ch)
+        i += 1
+    return "".join(out)
+
+
 def _strip_strings(formula: str) -> str:
     return _STRING_LITERAL.sub('""', formula)
 
@@ -492,12 +559,25 @@ def _model_class() -> type:
                 for c in row:
                     if getattr(c, "value", None) is None or (c.row, c.column) in covered:
                         continue  # blank (adds nothing to the model) or filled by a spill
+                    if c.data_type == "f":
+                        _mark_cell(c)
                     cells.append(self.compile_cell(c, ctx, references, formula_references))
             for cell in cells:
                 self.add_cell(sh.await_result(cell), ctx, formula_ranges)
             return self
 
     return Model
+
+
+def _mark_cell(cell: Any) -> None:
+    """Apply :func:`mark_omitted_arguments` to an openpyxl formula cell in place."""
+    value = cell.value
+    if isinstance(value, str):
+        marked = mark_omitted_arguments(value)
+        if marked != value:
+            cell.value = marked
+    elif hasattr(value, "text") and isinstance(value.text, str):
+        value.text = mark_omitted_arguments(value.text)
 
 
 class _ProblemLog(logging.Handler):
