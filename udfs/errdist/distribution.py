@@ -34,13 +34,15 @@ Conventions
 from __future__ import annotations
 
 import math
-from typing import Any
 
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
 from scipy import special as sc
 from scipy.special import cython_special as _cs
 
+from errdist._validate import as_float_array as _as_float_array
+from errdist._validate import fmt_number as _fmt
+from errdist._validate import raise_first as _raise_first
 from errdist.errors import DomainError, InputTypeError
 
 __all__ = [
@@ -85,50 +87,6 @@ _gammaln = sc.gammaln
 # --------------------------------------------------------------------------------------------
 # validation helpers
 # --------------------------------------------------------------------------------------------
-def _fmt(value: Any) -> str:
-    """Format a number for an error message: ``0``, ``-1``, ``0.25``, ``nan``, ``inf``."""
-    try:
-        f = float(value)
-    except (TypeError, ValueError):
-        return repr(value)
-    if f.is_integer() and abs(f) < 1e16:
-        return str(int(f))
-    return repr(f)
-
-
-def _as_float_array(name: str, value: Any) -> NDArray[np.float64]:
-    """Convert ``value`` to a float64 array or raise :class:`InputTypeError`."""
-    if isinstance(value, (str, bytes)):
-        raise InputTypeError(f"{name} must be numeric, got text {value!r}")
-    if value is None:
-        raise InputTypeError(f"{name} must be numeric, got None")
-    if isinstance(value, (list, tuple)):
-        raw = np.asarray(value)
-        if raw.dtype.kind not in "biuf":  # None or text inside a list: no silent NaN
-            for index, item in np.ndenumerate(raw):
-                if isinstance(item, np.generic):
-                    item = item.item()
-                if item is None or isinstance(item, (str, bytes)):
-                    where = index[0] if raw.ndim == 1 else index
-                    raise InputTypeError(
-                        f"{name} must be numeric, got {item!r} at position {where}"
-                    )
-    try:
-        return np.asarray(value, dtype=np.float64)
-    except (TypeError, ValueError) as exc:
-        raise InputTypeError(f"{name} must be numeric, got {value!r}") from exc
-
-
-def _raise_first(name: str, arr: NDArray[np.float64], bad: NDArray[np.bool_], rule: str) -> None:
-    """Raise a DomainError for the first element of ``arr`` flagged in ``bad``."""
-    if arr.ndim == 0:
-        raise DomainError(f"{name} must be {rule}, got {_fmt(arr[()])}")
-    flat = int(np.argmax(bad.ravel()))
-    index = np.unravel_index(flat, arr.shape)
-    where = str(index[0]) if arr.ndim == 1 else str(tuple(int(i) for i in index))
-    raise DomainError(f"{name} must be {rule}, got {_fmt(arr[index])} at position {where}")
-
-
 def _check_arrays(
     loc: NDArray[np.float64], scale: NDArray[np.float64], shape: NDArray[np.float64]
 ) -> None:
@@ -180,6 +138,18 @@ def _params(
     return m, a, b
 
 
+def _fast_scalars(x: ArrayLike, loc: ArrayLike, scale: ArrayLike, shape: ArrayLike) -> bool:
+    """True when all four arguments are plain scalars (the fast path); the parameters are checked.
+
+    ``x`` is the point or the probability; it is not checked here.
+    """
+    if type(x) in _FAST and type(loc) in _FAST and type(scale) in _FAST and type(shape) in _FAST:
+        if not (0.0 < scale < _INF and 0.0 < shape < _INF and -_INF < loc < _INF):
+            check_params(loc, scale, shape)
+        return True
+    return False
+
+
 def _check_p(p: ArrayLike) -> NDArray[np.float64]:
     arr = _as_float_array("p", p)
     ok = (arr >= 0.0) & (arr <= 1.0)
@@ -198,6 +168,21 @@ def _scalar_z(d: float, shape: float) -> float:
         return abs(d) ** shape
     except OverflowError:
         return _INF
+
+
+def _std_offsets(
+    x: ArrayLike, loc: ArrayLike, scale: ArrayLike, shape: ArrayLike
+) -> tuple[NDArray[np.float64], NDArray[np.float64], NDArray[np.float64]]:
+    """Validated ``d = (x - loc) / scale``, ``scale`` and ``shape`` as arrays."""
+    xa = _as_float_array("x", x)
+    m, a, b = _params(loc, scale, shape)
+    with np.errstate(over="ignore"):  # |x - m| / a beyond the float range is inf: fine
+        d = np.subtract(xa, m)
+        if d.ndim > 0 and d.shape == np.broadcast_shapes(d.shape, a.shape):
+            d /= a  # in place: d is a fresh array of the final shape
+        else:
+            d = np.divide(d, a)
+    return d, a, b
 
 
 # --------------------------------------------------------------------------------------------
@@ -244,6 +229,16 @@ def _log_q_cf(a: NDArray[np.float64], z: NDArray[np.float64]) -> NDArray[np.floa
 # --------------------------------------------------------------------------------------------
 # densities
 # --------------------------------------------------------------------------------------------
+def _log_norm_and_z(
+    x: ArrayLike, loc: ArrayLike, scale: ArrayLike, shape: ArrayLike
+) -> tuple[NDArray[np.float64], NDArray[np.float64]]:
+    r"""Validated arrays :math:`\log(b / (2a)) - \log\Gamma(1/b)` and :math:`|(x-m)/a|^b`."""
+    d, a, b = _std_offsets(x, loc, scale, shape)
+    with np.errstate(over="ignore"):
+        z = np.abs(d) ** b
+    return np.log(0.5 * b / a) - _gammaln(1.0 / b), z
+
+
 def logpdf(
     x: ArrayLike, loc: ArrayLike = 0.0, scale: ArrayLike = 1.0, shape: ArrayLike = 2.0
 ) -> FloatOrArray:
@@ -268,16 +263,11 @@ def logpdf(
     float or numpy.ndarray
         Python float when every input is a scalar.
     """
-    if type(x) in _FAST and type(loc) in _FAST and type(scale) in _FAST and type(shape) in _FAST:
-        if not (0.0 < scale < _INF and 0.0 < shape < _INF and -_INF < loc < _INF):
-            check_params(loc, scale, shape)
+    if _fast_scalars(x, loc, scale, shape):
         z = _scalar_z((x - loc) / scale, shape)
         return float(math.log(0.5 * shape / scale) - float(_cs.gammaln(1.0 / shape)) - z)
-    xa = _as_float_array("x", x)
-    m, a, b = _params(loc, scale, shape)
-    with np.errstate(over="ignore"):
-        z = np.abs((xa - m) / a) ** b
-    return _out(np.log(0.5 * b / a) - _gammaln(1.0 / b) - z)
+    lognorm, z = _log_norm_and_z(x, loc, scale, shape)
+    return _out(lognorm - z)
 
 
 def pdf(
@@ -304,20 +294,14 @@ def pdf(
     float or numpy.ndarray
         Python float when every input is a scalar.
     """
-    if type(x) in _FAST and type(loc) in _FAST and type(scale) in _FAST and type(shape) in _FAST:
-        if not (0.0 < scale < _INF and 0.0 < shape < _INF and -_INF < loc < _INF):
-            check_params(loc, scale, shape)
+    if _fast_scalars(x, loc, scale, shape):
         lognorm = math.log(0.5 * shape / scale) - float(_cs.gammaln(1.0 / shape))
         z = _scalar_z((x - loc) / scale, shape)
         ez = math.exp(-z)
         if ez > 1e-290 and -690.0 < lognorm < 690.0:
             return math.exp(lognorm) * ez
         return math.exp(lognorm - z)
-    xa = _as_float_array("x", x)
-    m, a, b = _params(loc, scale, shape)
-    with np.errstate(over="ignore"):
-        z = np.abs((xa - m) / a) ** b
-    lognorm = np.log(0.5 * b / a) - _gammaln(1.0 / b)
+    lognorm, z = _log_norm_and_z(x, loc, scale, shape)
     ez = np.exp(-z)
     # exp(lognorm) * exp(-z) avoids rounding the sum lognorm - z (error ~ z * eps); fall back
     # to the sum where either factor leaves the normal float range
@@ -369,21 +353,6 @@ def _q_array(d: NDArray[np.float64], b: NDArray[np.float64]) -> NDArray[np.float
     return q
 
 
-def _std_offsets(
-    x: ArrayLike, loc: ArrayLike, scale: ArrayLike, shape: ArrayLike
-) -> tuple[NDArray[np.float64], NDArray[np.float64]]:
-    """Validated ``d = (x - loc) / scale`` and ``shape`` as arrays."""
-    xa = _as_float_array("x", x)
-    m, a, b = _params(loc, scale, shape)
-    with np.errstate(over="ignore"):  # |x - m| / a beyond the float range is inf: fine
-        d = np.subtract(xa, m)
-        if d.ndim > 0 and d.shape == np.broadcast_shapes(d.shape, a.shape):
-            d /= a  # in place: d is a fresh array of the final shape
-        else:
-            d = np.divide(d, a)
-    return d, b
-
-
 def _log_q_array(
     d: NDArray[np.float64], b: NDArray[np.float64]
 ) -> tuple[NDArray[np.float64], NDArray[np.float64]]:
@@ -410,6 +379,39 @@ def _log_q_scalar(d: float, shape: float) -> tuple[float, float]:
     if z == _INF:
         return q, -_INF
     return q, float(_log_q_cf(np.array([1.0 / shape]), np.array([z]))[0])
+
+
+def _tail(
+    x: ArrayLike, loc: ArrayLike, scale: ArrayLike, shape: ArrayLike, upper: bool
+) -> FloatOrArray:
+    """:func:`cdf` (``upper`` false) or :func:`sf` (``upper`` true).
+
+    ``0.5 * Q`` on the far side of ``loc`` (``d < 0`` for the cdf, ``d > 0`` for the sf),
+    ``1 - 0.5 * Q`` on the near side; the same ``Q`` serves both by symmetry.
+    """
+    if _fast_scalars(x, loc, scale, shape):
+        d = (x - loc) / scale
+        h = 0.5 * _q_scalar(d, shape)
+        return h if (d > 0.0 if upper else d < 0.0) else 1.0 - h
+    d, _, b = _std_offsets(x, loc, scale, shape)
+    h = _q_array(d, b)
+    h *= 0.5
+    near = np.subtract(1.0, h)
+    return _out(np.where(d > 0.0 if upper else d < 0.0, h, near))
+
+
+def _log_tail(
+    x: ArrayLike, loc: ArrayLike, scale: ArrayLike, shape: ArrayLike, upper: bool
+) -> FloatOrArray:
+    """:func:`logcdf` (``upper`` false) or :func:`logsf` (``upper`` true); see :func:`_tail`."""
+    if _fast_scalars(x, loc, scale, shape):
+        d = (x - loc) / scale
+        if d > 0.0 if upper else d < 0.0:
+            return _LOG_HALF + _log_q_scalar(d, shape)[1]
+        return math.log1p(-0.5 * _q_scalar(d, shape))
+    d, _, b = _std_offsets(x, loc, scale, shape)
+    q, lq = _log_q_array(d, b)
+    return _out(np.where(d > 0.0 if upper else d < 0.0, _LOG_HALF + lq, np.log1p(-0.5 * q)))
 
 
 def cdf(
@@ -444,17 +446,7 @@ def cdf(
     DomainError
         For an invalid parameter (see :func:`check_params`).
     """
-    if type(x) in _FAST and type(loc) in _FAST and type(scale) in _FAST and type(shape) in _FAST:
-        if not (0.0 < scale < _INF and 0.0 < shape < _INF and -_INF < loc < _INF):
-            check_params(loc, scale, shape)
-        d = (x - loc) / scale
-        h = 0.5 * _q_scalar(d, shape)
-        return h if d < 0.0 else 1.0 - h
-    d, b = _std_offsets(x, loc, scale, shape)
-    h = _q_array(d, b)
-    h *= 0.5
-    near = np.subtract(1.0, h)
-    return _out(np.where(d < 0.0, h, near))
+    return _tail(x, loc, scale, shape, False)
 
 
 def sf(
@@ -482,17 +474,7 @@ def sf(
     float or numpy.ndarray
         Python float when every input is a scalar.
     """
-    if type(x) in _FAST and type(loc) in _FAST and type(scale) in _FAST and type(shape) in _FAST:
-        if not (0.0 < scale < _INF and 0.0 < shape < _INF and -_INF < loc < _INF):
-            check_params(loc, scale, shape)
-        d = (x - loc) / scale
-        h = 0.5 * _q_scalar(d, shape)
-        return h if d > 0.0 else 1.0 - h
-    d, b = _std_offsets(x, loc, scale, shape)
-    h = _q_array(d, b)
-    h *= 0.5
-    near = np.subtract(1.0, h)
-    return _out(np.where(d > 0.0, h, near))
+    return _tail(x, loc, scale, shape, True)
 
 
 def logcdf(
@@ -523,16 +505,7 @@ def logcdf(
     float or numpy.ndarray
         Python float when every input is a scalar.
     """
-    if type(x) in _FAST and type(loc) in _FAST and type(scale) in _FAST and type(shape) in _FAST:
-        if not (0.0 < scale < _INF and 0.0 < shape < _INF and -_INF < loc < _INF):
-            check_params(loc, scale, shape)
-        d = (x - loc) / scale
-        if d < 0.0:
-            return _LOG_HALF + _log_q_scalar(d, shape)[1]
-        return math.log1p(-0.5 * _q_scalar(d, shape))
-    d, b = _std_offsets(x, loc, scale, shape)
-    q, lq = _log_q_array(d, b)
-    return _out(np.where(d < 0.0, _LOG_HALF + lq, np.log1p(-0.5 * q)))
+    return _log_tail(x, loc, scale, shape, False)
 
 
 def logsf(
@@ -561,16 +534,7 @@ def logsf(
     float or numpy.ndarray
         Python float when every input is a scalar.
     """
-    if type(x) in _FAST and type(loc) in _FAST and type(scale) in _FAST and type(shape) in _FAST:
-        if not (0.0 < scale < _INF and 0.0 < shape < _INF and -_INF < loc < _INF):
-            check_params(loc, scale, shape)
-        d = (x - loc) / scale
-        if d > 0.0:
-            return _LOG_HALF + _log_q_scalar(d, shape)[1]
-        return math.log1p(-0.5 * _q_scalar(d, shape))
-    d, b = _std_offsets(x, loc, scale, shape)
-    q, lq = _log_q_array(d, b)
-    return _out(np.where(d > 0.0, _LOG_HALF + lq, np.log1p(-0.5 * q)))
+    return _log_tail(x, loc, scale, shape, True)
 
 
 # --------------------------------------------------------------------------------------------
@@ -603,6 +567,21 @@ def _std_quantile(p: NDArray[np.float64], shape: NDArray[np.float64]) -> NDArray
         z[tail] = _gammainccinv(c[tail], 2.0 * np.where(pt < 0.5, pt, 1.0 - pt))
     w = z**c
     return np.where(pb < 0.5, -w, w)
+
+
+def _quantile(
+    p: ArrayLike, loc: ArrayLike, scale: ArrayLike, shape: ArrayLike, upper: bool
+) -> FloatOrArray:
+    """:func:`ppf` (``upper`` false: ``m + a t(p)``) or :func:`isf` (``upper`` true: ``m - a t(p)``)."""
+    if _fast_scalars(p, loc, scale, shape):
+        if not 0.0 <= p <= 1.0:
+            raise DomainError(f"p must be in [0, 1], got {_fmt(p)}")
+        t = scale * _std_quantile_scalar(p, shape)
+        return loc - t if upper else loc + t
+    pa = _check_p(p)
+    m, a, b = _params(loc, scale, shape)
+    ta = a * _std_quantile(pa, b)
+    return _out(m - ta if upper else m + ta)
 
 
 def ppf(
@@ -639,15 +618,7 @@ def ppf(
     DomainError
         If ``p`` is outside [0, 1] or NaN, or a parameter is invalid.
     """
-    if type(p) in _FAST and type(loc) in _FAST and type(scale) in _FAST and type(shape) in _FAST:
-        if not (0.0 < scale < _INF and 0.0 < shape < _INF and -_INF < loc < _INF):
-            check_params(loc, scale, shape)
-        if not 0.0 <= p <= 1.0:
-            raise DomainError(f"p must be in [0, 1], got {_fmt(p)}")
-        return loc + scale * _std_quantile_scalar(p, shape)
-    pa = _check_p(p)
-    m, a, b = _params(loc, scale, shape)
-    return _out(m + a * _std_quantile(pa, b))
+    return _quantile(p, loc, scale, shape, False)
 
 
 def isf(
@@ -679,15 +650,7 @@ def isf(
     DomainError
         If ``p`` is outside [0, 1] or NaN, or a parameter is invalid.
     """
-    if type(p) in _FAST and type(loc) in _FAST and type(scale) in _FAST and type(shape) in _FAST:
-        if not (0.0 < scale < _INF and 0.0 < shape < _INF and -_INF < loc < _INF):
-            check_params(loc, scale, shape)
-        if not 0.0 <= p <= 1.0:
-            raise DomainError(f"p must be in [0, 1], got {_fmt(p)}")
-        return loc - scale * _std_quantile_scalar(p, shape)
-    pa = _check_p(p)
-    m, a, b = _params(loc, scale, shape)
-    return _out(m - a * _std_quantile(pa, b))
+    return _quantile(p, loc, scale, shape, True)
 
 
 # --------------------------------------------------------------------------------------------
