@@ -1,11 +1,27 @@
-"""errdist: the generalized normal ("error") distribution for spreadsheet risk work."""
+"""errdist: the generalized normal ("error") distribution for spreadsheet risk work.
+
+The Python API (snake_case, scipy-style names, argument order ``(x, loc, scale, shape)``):
+
+- distribution: :func:`pdf`, :func:`logpdf`, :func:`cdf`, :func:`sf`, :func:`logcdf`,
+  :func:`logsf`, :func:`ppf`, :func:`isf`, :func:`rvs`, :func:`variance`,
+  :func:`excess_kurtosis`
+- estimation: :func:`fit` (-> :class:`Fit`), :func:`loglik`, :func:`solve_shape`,
+  :func:`solve_scale`, spreadsheet-convention sample statistics
+- risk: :func:`value_at_risk`, :func:`expected_shortfall`
+- model checking: :func:`goodness_of_fit`, :func:`compare`, :func:`empirical_points`
+- backtesting: :func:`kupiec`, :func:`christoffersen`, :func:`traffic_light`,
+  :func:`backtest`, :func:`rolling_var`
+- data: :func:`returns_from_prices`
+
+Errors are :class:`ValueError` subclasses from :mod:`errdist.errors`.
+"""
 
 from __future__ import annotations
 
 __version__ = "0.1.0"
 
-# --- distribution functions (owner: core-distribution) ---
-from errdist.distribution import (  # noqa: E402, F401
+# isort: split
+from errdist.distribution import (
     cdf,
     check_params,
     excess_kurtosis,
@@ -19,9 +35,8 @@ from errdist.distribution import (  # noqa: E402, F401
     sf,
     variance,
 )
-
-# --- estimation (owner: core-estimate) ---
-from errdist.estimate import (  # noqa: E402, F401
+from errdist.errors import DomainError, InputTypeError, InsufficientDataError
+from errdist.estimate import (
     SHAPE_MAX,
     SHAPE_MIN,
     Fit,
@@ -37,9 +52,8 @@ from errdist.estimate import (  # noqa: E402, F401
     solve_shape,
 )
 
-# --- risk measures and backtesting (owner: risk) ---
 # isort: split
-from errdist.backtest import (  # noqa: E402, F401
+from errdist.backtest import (
     BacktestResult,
     backtest,
     christoffersen,
@@ -47,14 +61,55 @@ from errdist.backtest import (  # noqa: E402, F401
     rolling_var,
     traffic_light,
 )
-from errdist.risk import expected_shortfall, value_at_risk  # noqa: E402, F401
+from errdist.empirical import empirical_points, plotting_positions
+from errdist.goodness import GofResult, edf_statistic, goodness_of_fit
+from errdist.returns import returns_from_prices
+from errdist.risk import expected_shortfall, value_at_risk
+from errdist.rivals import compare
 
-# --- model checking: goodness of fit, rival laws, chart points (owner: model-checking) ---
-# isort: split
-from errdist.empirical import empirical_points, plotting_positions  # noqa: E402, F401
-from errdist.goodness import GofResult, edf_statistic, goodness_of_fit  # noqa: E402, F401
-from errdist.rivals import compare  # noqa: E402, F401
-
-# --- prices to returns (owner: worksheet layer) ---
-# isort: split
-from errdist.returns import returns_from_prices  # noqa: E402, F401
+__all__ = [
+    "SHAPE_MAX",
+    "SHAPE_MIN",
+    "BacktestResult",
+    "DomainError",
+    "Fit",
+    "GofResult",
+    "InputTypeError",
+    "InsufficientDataError",
+    "__version__",
+    "backtest",
+    "cdf",
+    "check_params",
+    "christoffersen",
+    "clean_sample",
+    "compare",
+    "edf_statistic",
+    "empirical_points",
+    "excess_kurtosis",
+    "expected_shortfall",
+    "fit",
+    "goodness_of_fit",
+    "isf",
+    "kupiec",
+    "logcdf",
+    "loglik",
+    "logpdf",
+    "logsf",
+    "pdf",
+    "plotting_positions",
+    "ppf",
+    "returns_from_prices",
+    "rolling_var",
+    "rvs",
+    "sample_excess_kurtosis",
+    "sample_mean",
+    "sample_median",
+    "sample_skewness",
+    "sample_std",
+    "sf",
+    "solve_scale",
+    "solve_shape",
+    "traffic_light",
+    "value_at_risk",
+    "variance",
+]
