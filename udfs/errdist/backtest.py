@@ -50,6 +50,7 @@ from numpy.typing import ArrayLike, NDArray
 from scipy import stats
 from scipy.special import xlogy
 
+from errdist._validate import fmt_number as _fmt
 from errdist.errors import DomainError, InputTypeError, InsufficientDataError
 from errdist.estimate import fit
 from errdist.mle import _mle_sorted
@@ -174,16 +175,6 @@ class BacktestResult:
 # --------------------------------------------------------------------------------------------
 # validation helpers
 # --------------------------------------------------------------------------------------------
-def _fmt(value: Any) -> str:
-    try:
-        f = float(value)
-    except (TypeError, ValueError):
-        return repr(value)
-    if f.is_integer() and abs(f) < 1e16:
-        return str(int(f))
-    return repr(f)
-
-
 def _confidence(confidence: Any) -> float:
     if isinstance(confidence, (str, bytes, bool)) or confidence is None:
         raise InputTypeError(f"confidence must be a number, got {confidence!r}")

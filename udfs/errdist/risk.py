@@ -64,6 +64,8 @@ import numpy as np
 from numpy.typing import ArrayLike, NDArray
 from scipy import special as sc
 
+from errdist._validate import as_float_array, raise_first
+from errdist._validate import fmt_number as _fmt
 from errdist.distribution import check_params, ppf
 from errdist.errors import DomainError, InputTypeError
 from errdist.horizon import sum_lower_tail
@@ -76,38 +78,14 @@ HORIZON_RULES = ("sqrt", "iid")
 FloatOrArray = float | NDArray[np.float64]
 
 
-def _fmt(value: Any) -> str:
-    try:
-        f = float(value)
-    except (TypeError, ValueError):
-        return repr(value)
-    if f.is_integer() and abs(f) < 1e16:
-        return str(int(f))
-    return repr(f)
-
-
-def _as_array(name: str, value: Any) -> NDArray[np.float64]:
-    if isinstance(value, (str, bytes)):
-        raise InputTypeError(f"{name} must be numeric, got text {value!r}")
-    try:
-        return np.asarray(value, dtype=np.float64)
-    except (TypeError, ValueError) as exc:
-        raise InputTypeError(f"{name} must be numeric, got {value!r}") from exc
-
-
 def _first_bad(name: str, arr: NDArray[np.float64], bad: NDArray[np.bool_], rule: str) -> None:
-    if not np.any(bad):
-        return
-    if arr.ndim == 0:
-        raise DomainError(f"{name} must be {rule}, got {_fmt(arr[()])}")
-    flat = int(np.argmax(bad.ravel()))
-    index = np.unravel_index(flat, arr.shape)
-    where = str(index[0]) if arr.ndim == 1 else str(tuple(int(i) for i in index))
-    raise DomainError(f"{name} must be {rule}, got {_fmt(arr[index])} at position {where}")
+    """Raise for the first ``bad`` element, if any (a ``None`` input arrives here as NaN)."""
+    if np.any(bad):
+        raise_first(name, arr, bad, rule)
 
 
 def _check_confidence(confidence: ArrayLike) -> NDArray[np.float64]:
-    c = _as_array("confidence", confidence)
+    c = as_float_array("confidence", confidence, strict=False)
     _first_bad("confidence", c, ~((c > 0.0) & (c < 1.0)), "a fraction in (0, 1) such as 0.99")
     return c
 
@@ -124,7 +102,7 @@ def _check_rule(horizon_rule: Any) -> str:
 def _check_horizon(horizon: Any, rule: str) -> float:
     if isinstance(horizon, (str, bytes)) or isinstance(horizon, bool):
         raise InputTypeError(f"horizon must be a number of days, got {horizon!r}")
-    arr = _as_array("horizon", horizon)
+    arr = as_float_array("horizon", horizon, strict=False)
     if arr.ndim != 0:
         raise InputTypeError("horizon must be a single number of days, got an array")
     h = float(arr)
@@ -140,7 +118,7 @@ def _check_horizon(horizon: Any, rule: str) -> float:
 def _check_amount(amount: Any) -> NDArray[np.float64] | None:
     if amount is None:
         return None
-    arr = _as_array("amount", amount)
+    arr = as_float_array("amount", amount, strict=False)
     _first_bad("amount", arr, ~(np.isfinite(arr) & (arr > 0.0)), "> 0 (a position value)")
     return arr
 
