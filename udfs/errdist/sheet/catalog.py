@@ -161,6 +161,13 @@ def _shape(example: float = 1.5, *, spill: bool = True) -> Param:
     return number("shape", _SHAPE, example=example, spill=spill)
 
 
+def _law(
+    loc: float = 0.0, scale: float = 1.0, shape: float = 1.5, *, spill: bool = True
+) -> tuple[Param, Param, Param]:
+    """The law's parameters ``loc, scale, shape`` with these examples."""
+    return _loc(loc, spill=spill), _scale(scale, spill=spill), _shape(shape, spill=spill)
+
+
 _EXAMPLE_DATA = [
     [0.0123],
     [-0.0089],
@@ -301,9 +308,7 @@ add(
         core="errdist.distribution:pdf",
         params=(
             number("x", "Value(s) at which to evaluate the density.", example=0.5),
-            _loc(),
-            _scale(),
-            _shape(),
+            *_law(),
         ),
         result="spill",
         summary="Density f(x) of the error (generalized normal) distribution. Any argument "
@@ -318,9 +323,7 @@ add(
         call=_cdf,
         params=(
             number("x", "Value(s) at which to evaluate the probability.", example=0.5),
-            _loc(),
-            _scale(),
-            _shape(),
+            *_law(),
             flag(
                 "upper",
                 "FALSE or omitted: P(X <= x). TRUE: the upper tail P(X > x), accurate far "
@@ -341,9 +344,7 @@ add(
         core="errdist.distribution:ppf",
         params=(
             number("p", "Probability(ies) strictly between 0 and 1.", example=0.99),
-            _loc(),
-            _scale(),
-            _shape(),
+            *_law(),
         ),
         result="spill",
         summary="Quantile (inverse cumulative probability) of the error distribution: the x "
@@ -358,9 +359,7 @@ add(
         call=_rand,
         params=(
             number("count", "How many draws: a whole number from 1 up.", example=5, spill=False),
-            _loc(spill=False),
-            _scale(spill=False),
-            _shape(spill=False),
+            *_law(spill=False),
             number(
                 "seed",
                 "Optional whole-number seed: the same seed gives the same draws. Omit it for "
@@ -482,7 +481,7 @@ add(
         name="ERRDIST_LOGLIK",
         core="errdist.estimate:loglik",
         call=_loglik,
-        params=(data_range("data", _DATA, example=_EXAMPLE_DATA), _loc(), _scale(0.01), _shape()),
+        params=(data_range("data", _DATA, example=_EXAMPLE_DATA), *_law(scale=0.01)),
         result="spill",
         vectorized=False,
         summary="Log-likelihood sum of ln f(x) of a data range under the error distribution; "
@@ -546,9 +545,7 @@ _VAR_FORECASTS = [[0.021]] * 9 + [[None], [0.022], [0.022]]
 def _risk_params(*, loc_example: float = 0.0005) -> tuple[Param, ...]:
     return (
         number("confidence", _CONFIDENCE, example=0.99),
-        _loc(loc_example),
-        _scale(0.01),
-        _shape(1.3),
+        *_law(loc_example, 0.01, 1.3),
         number(
             "horizon_days",
             'Optional horizon in days, >= 1 (default 1); a whole number with horizon_rule "iid".',
@@ -571,26 +568,6 @@ def _risk_params(*, loc_example: float = 0.0005) -> tuple[Param, ...]:
             choices=("sqrt", "iid"),
             default="sqrt",
         ),
-    )
-
-
-def _var_cells(
-    confidence: Any, loc: Any, scale: Any, shape: Any, horizon: float, amount: Any, rule: str
-) -> Any:
-    from errdist.risk import value_at_risk
-
-    return value_at_risk(
-        confidence, loc, scale, shape, horizon=horizon, amount=amount, horizon_rule=rule
-    )
-
-
-def _es_cells(
-    confidence: Any, loc: Any, scale: Any, shape: Any, horizon: float, amount: Any, rule: str
-) -> Any:
-    from errdist.risk import expected_shortfall
-
-    return expected_shortfall(
-        confidence, loc, scale, shape, horizon=horizon, amount=amount, horizon_rule=rule
     )
 
 
@@ -625,7 +602,6 @@ add(
     Entry(
         name="ERRDIST_VAR",
         core="errdist.risk:value_at_risk",
-        call=_var_cells,
         params=_risk_params(),
         result="spill",
         summary="Value-at-Risk: the loss not exceeded with the given confidence, as a positive "
@@ -642,7 +618,6 @@ add(
     Entry(
         name="ERRDIST_ES",
         core="errdist.risk:expected_shortfall",
-        call=_es_cells,
         params=_risk_params(),
         result="spill",
         summary="Expected Shortfall: the mean loss on the days beyond the VaR at the given "
@@ -865,9 +840,7 @@ add(
         call=_empirical_table,
         params=(
             data_range("data", _DATA, example=_EXAMPLE_DATA),
-            _loc(0.0, spill=False),
-            _scale(0.015, spill=False),
-            _shape(1.5, spill=False),
+            *_law(0.0, 0.015, 1.5, spill=False),
             flag("header", "TRUE adds a row of column labels above the table."),
         ),
         result="table",
