@@ -361,17 +361,23 @@ def as_data(value: object, name: str) -> np.ndarray:
     return _trim_trailing_blank_rows(arr)
 
 
-def as_text(
-    value: object, name: str, *, choices: Sequence[str] = (), default: str | None = None
-) -> str:
-    """A text option (case-insensitive); blank gives ``default``."""
+def _single_cell(value: object, name: str) -> object:
+    """The cell of a one-cell range (a larger range is a ``#VALUE!``); other values as they are."""
     if isinstance(value, (list, tuple, np.ndarray)):
         flat, nrows, ncols = _grid(value, name)
         if nrows * ncols != 1:
             raise SheetError(
                 "#VALUE!", f"{name} must be a single cell, got a {nrows}x{ncols} range"
             )
-        value = flat[0]
+        return flat[0]
+    return value
+
+
+def as_text(
+    value: object, name: str, *, choices: Sequence[str] = (), default: str | None = None
+) -> str:
+    """A text option (case-insensitive); blank gives ``default``."""
+    value = _single_cell(value, name)
     if is_blank(value):
         if default is None:
             raise SheetError("#VALUE!", f"{name} is blank; a text is needed")
@@ -392,13 +398,7 @@ _FALSE_TEXTS = frozenset({"false", "no", "0"})
 def as_flag(value: object, name: str, *, default: bool = False) -> bool:
     """A TRUE/FALSE option; blank gives ``default``; numbers follow the spreadsheet (0 is
     FALSE, any other number TRUE); the texts TRUE/FALSE are accepted."""
-    if isinstance(value, (list, tuple, np.ndarray)):
-        flat, nrows, ncols = _grid(value, name)
-        if nrows * ncols != 1:
-            raise SheetError(
-                "#VALUE!", f"{name} must be a single cell, got a {nrows}x{ncols} range"
-            )
-        value = flat[0]
+    value = _single_cell(value, name)
     if isinstance(value, (bool, np.bool_)):
         return bool(value)
     if is_blank(value):

@@ -12,13 +12,12 @@ The reference is never edited by hand; a test fails when it differs from :func:`
 from __future__ import annotations
 
 import argparse
-import os
 import sys
-import tempfile
 from collections.abc import Iterable, Sequence
 from pathlib import Path
 from typing import Any
 
+from errdist.sheet._textfile import replace_text
 from errdist.sheet.entry import Entry, Param
 
 __all__ = ["DEFAULT_PATH", "example_formula", "main", "render"]
@@ -206,14 +205,7 @@ def render(entries: Iterable[Entry] | None = None) -> str:
 
 def _write(path: Path, text: str) -> None:
     path.parent.mkdir(parents=True, exist_ok=True)
-    fd, tmp = tempfile.mkstemp(prefix=".functions-", suffix=".tmp", dir=path.parent)
-    try:
-        with os.fdopen(fd, "w", encoding="utf-8", newline="\n") as fh:
-            fh.write(text)
-        os.replace(tmp, path)
-    except BaseException:
-        Path(tmp).unlink(missing_ok=True)
-        raise
+    replace_text(path, text, encoding="utf-8", newline="\n", prefix=".functions-")
 
 
 def main(argv: Sequence[str] | None = None) -> int:

@@ -24,13 +24,12 @@ from __future__ import annotations
 
 import argparse
 import io
-import os
 import sys
-import tempfile
 from collections.abc import Iterable
 from pathlib import Path
 from typing import TextIO
 
+from errdist.sheet._textfile import replace_text
 from errdist.sheet.entry import Entry
 
 __all__ = ["MODULE_NAME", "VB_NAME", "main", "vba_module", "write_function", "write_help"]
@@ -165,14 +164,7 @@ def main(args: argparse.Namespace) -> int:
         return 0
     path = Path(out)
     try:
-        fd, tmp = tempfile.mkstemp(prefix=".errdist-vba-", suffix=".tmp", dir=path.parent or ".")
-        try:
-            with os.fdopen(fd, "w", encoding="ascii", newline="\r\n") as fh:
-                fh.write(text)
-            os.replace(tmp, path)
-        except BaseException:
-            Path(tmp).unlink(missing_ok=True)
-            raise
+        replace_text(path, text, encoding="ascii", newline="\r\n", prefix=".errdist-vba-")
     except OSError as exc:
         print(f"errdist vba: cannot write {out}: {exc.strerror or exc}", file=sys.stderr)
         return 2
