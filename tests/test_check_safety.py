@@ -25,12 +25,19 @@ def _plain_book(path: Path) -> Path:
     return path
 
 
-def _rewrite(src: Path, dst: Path, replace: dict[str, bytes], add: dict[str, bytes] | None = None):
+def _tampered_book(
+    tmp_path: Path,
+    name: str,
+    replace: dict[str, bytes] | None = None,
+    add: dict[str, bytes] | None = None,
+) -> Path:
+    """The plain workbook saved as ``name`` with the parts in ``replace`` swapped, ``add`` added."""
+    src, dst = _plain_book(tmp_path / "ok.xlsx"), tmp_path / name
     with zipfile.ZipFile(src) as zin, zipfile.ZipFile(dst, "w", zipfile.ZIP_DEFLATED) as zout:
         for info in zin.infolist():
-            zout.writestr(info, replace.get(info.filename, zin.read(info)))
-        for name, data in (add or {}).items():
-            zout.writestr(name, data)
+            zout.writestr(info, (replace or {}).get(info.filename, zin.read(info)))
+        for part, data in (add or {}).items():
+            zout.writestr(part, data)
     return dst
 
 
@@ -42,12 +49,7 @@ def test_plain_workbook_accepted(tmp_path):
 
 def test_highly_compressed_entry_refused_before_decompressing(tmp_path):
     # 8 MB of zeros deflates to a few kB: a ratio far above MAX_RATIO, as in a zip bomb.
-    bomb = _rewrite(
-        _plain_book(tmp_path / "ok.xlsx"),
-        tmp_path / "bomb.xlsx",
-        {},
-        {"xl/media/pad.bin": bytes(8 << 20)},
-    )
+    bomb = _tampered_book(tmp_path, "bomb.xlsx", add={"xl/media/pad.bin": bytes(8 << 20)})
     with pytest.raises(safety.UnsafeFileError, match="zip bomb"):
         safety.inspect_xlsx(bomb)
     with pytest.raises(safety.UnsafeFileError, match="zip bomb"):
@@ -55,12 +57,7 @@ def test_highly_compressed_entry_refused_before_decompressing(tmp_path):
 
 
 def test_uncompressed_total_limit(tmp_path):
-    book = _rewrite(
-        _plain_book(tmp_path / "ok.xlsx"),
-        tmp_path / "big.xlsx",
-        {},
-        {"xl/media/pad.bin": bytes(3 << 20)},
-    )
+    book = _tampered_book(tmp_path, "big.xlsx", add={"xl/media/pad.bin": bytes(3 << 20)})
     with pytest.raises(safety.UnsafeFileError, match="uncompressed content exceeds"):
         safety.inspect_xlsx(book, max_uncompressed_bytes=2 << 20, max_ratio=1e9)
 
@@ -84,12 +81,7 @@ def test_external_link_part_refused(tmp_path):
         b'<externalLink xmlns="http://schemas.openxmlformats.org/spreadsheetml/2006/main">'
         b"<externalBook/></externalLink>"
     )
-    book = _rewrite(
-        _plain_book(tmp_path / "ok.xlsx"),
-        tmp_path / "linked.xlsx",
-        {},
-        {"xl/externalLinks/externalLink1.xml": link},
-    )
+    book = _tampered_book(tmp_path, "linked.xlsx", add={"xl/externalLinks/externalLink1.xml": link})
     with pytest.raises(safety.UnsafeFileError, match="links to other files"):
         check_workbook(book)
 
@@ -125,11 +117,7 @@ BILLION_LAUGHS = b"""<?xml version="1.0" encoding="UTF-8" standalone="yes"?>
 
 
 def test_entity_expansion_in_shared_strings_refused(tmp_path):
-    book = _rewrite(
-        _plain_book(tmp_path / "ok.xlsx"),
-        tmp_path / "laughs.xlsx",
-        {"xl/sharedStrings.xml": BILLION_LAUGHS},
-    )
+    book = _tampered_book(tmp_path, "laughs.xlsx", replace={"xl/sharedStrings.xml": BILLION_LAUGHS})
     with pytest.raises(safety.UnsafeFileError, match="DTD or entity"):
         check_workbook(book)
     with pytest.raises(safety.UnsafeFileError, match="DTD or entity"):
@@ -142,11 +130,7 @@ def test_entity_declaration_in_utf16_part_refused(tmp_path):
     utf16 = (
         BILLION_LAUGHS.replace(b'encoding="UTF-8"', b'encoding="UTF-16"').decode().encode("utf-16")
     )
-    book = _rewrite(
-        _plain_book(tmp_path / "ok.xlsx"),
-        tmp_path / "laughs16.xlsx",
-        {"xl/sharedStrings.xml": utf16},
-    )
+    book = _tampered_book(tmp_path, "laughs16.xlsx", replace={"xl/sharedStrings.xml": utf16})
     with pytest.raises(safety.UnsafeFileError, match="DTD or entity"):
         safety.inspect_xlsx(book)
 

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import math
+from typing import Any
 
 import numpy as np
 import pandas as pd
@@ -48,24 +49,22 @@ DATASETS = _datasets()
 IDS = [name for name, _ in DATASETS]
 
 
+@pytest.mark.parametrize(
+    ("fit", "law"),
+    [
+        # Reference: scipy.stats.norm.fit (closed-form MLE: mean, divisor-n sd).
+        pytest.param(fit_normal, stats.norm, id="normal"),
+        # Reference: scipy.stats.laplace.fit (closed-form MLE: median, mean absolute deviation).
+        pytest.param(fit_laplace, stats.laplace, id="laplace"),
+    ],
+)
 @pytest.mark.parametrize(("name", "x"), DATASETS, ids=IDS)
-def test_normal_closed_form_is_scipys_mle(name: str, x: np.ndarray) -> None:
-    # Reference: scipy.stats.norm.fit (closed-form MLE: mean, divisor-n sd).
-    f = fit_normal(x)
-    loc, scale = stats.norm.fit(x)
+def test_closed_form_is_scipys_mle(fit: Any, law: Any, name: str, x: np.ndarray) -> None:
+    f = fit(x)
+    loc, scale = law.fit(x)
     assert f.loc == pytest.approx(loc, rel=1e-12, abs=1e-15)
     assert f.scale == pytest.approx(scale, rel=1e-12)
-    assert f.loglik == pytest.approx(stats.norm.logpdf(x, loc, scale).sum(), rel=1e-12)
-
-
-@pytest.mark.parametrize(("name", "x"), DATASETS, ids=IDS)
-def test_laplace_closed_form_is_scipys_mle(name: str, x: np.ndarray) -> None:
-    # Reference: scipy.stats.laplace.fit (closed-form MLE: median, mean absolute deviation).
-    f = fit_laplace(x)
-    loc, scale = stats.laplace.fit(x)
-    assert f.loc == pytest.approx(loc, rel=1e-12, abs=1e-15)
-    assert f.scale == pytest.approx(scale, rel=1e-12)
-    assert f.loglik == pytest.approx(stats.laplace.logpdf(x, loc, scale).sum(), rel=1e-12)
+    assert f.loglik == pytest.approx(law.logpdf(x, loc, scale).sum(), rel=1e-12)
 
 
 @pytest.mark.parametrize(("name", "x"), DATASETS, ids=IDS)
