@@ -7,10 +7,8 @@ the system Python that has python3-uno) and every result is read back as a full 
 
 from __future__ import annotations
 
-import json
-import shutil
-import subprocess
 from pathlib import Path
+from typing import Any
 
 import numpy as np
 import pytest
@@ -25,9 +23,6 @@ from errdist.estimate import (
 
 pytestmark = pytest.mark.libreoffice
 
-ROOT = Path(__file__).resolve().parents[1]
-UNO_SCRIPT = ROOT / "tests" / "uno_crosscheck.py"
-SYSTEM_PYTHON = "/usr/bin/python3"
 FORMULAS = {
     "KURT": sample_excess_kurtosis,
     "SKEW": sample_skewness,
@@ -49,13 +44,7 @@ def _samples() -> list[list[float]]:
     return [[float(f"{v:.15g}") for v in data] for data in raw]
 
 
-def test_sample_statistics_match_libreoffice(tmp_path: Path) -> None:
-    if shutil.which("soffice") is None:
-        pytest.skip("LibreOffice (soffice) is not installed")
-    if not Path(SYSTEM_PYTHON).exists():
-        pytest.skip(f"{SYSTEM_PYTHON} is not installed (needed for python3-uno)")
-    if subprocess.run([SYSTEM_PYTHON, "-c", "import uno"], capture_output=True).returncode:
-        pytest.skip("python3-uno is not installed (import uno fails in /usr/bin/python3)")
+def test_sample_statistics_match_libreoffice(tmp_path: Path, libreoffice: Any) -> None:
     xlsxwriter = pytest.importorskip("xlsxwriter", reason="XlsxWriter not installed")
 
     samples = _samples()
@@ -78,17 +67,7 @@ def test_sample_statistics_match_libreoffice(tmp_path: Path) -> None:
         "reads": reads,
         "out": str(tmp_path / "result.json"),
     }
-    (tmp_path / "job.json").write_text(json.dumps(job))
-    proc = subprocess.run(
-        [SYSTEM_PYTHON, str(UNO_SCRIPT), str(tmp_path / "job.json")],
-        capture_output=True,
-        text=True,
-        timeout=300,
-    )
-    assert proc.returncode == 0, proc.stderr[-2000:]
-    values = {
-        a1: (kind, v) for _, a1, kind, v in json.loads(Path(job["out"]).read_text())["values"]
-    }
+    values = {a1: (kind, v) for _, a1, kind, v in libreoffice(job, tmp_path)["values"]}
     for col, data in enumerate(samples):
         letter = chr(ord("A") + col)
         for k, (name, ours) in enumerate(FORMULAS.items()):

@@ -20,6 +20,7 @@ import json
 import shutil
 import subprocess
 from pathlib import Path
+from typing import Any
 
 import numpy as np
 import pytest
@@ -38,20 +39,8 @@ pytestmark = pytest.mark.libreoffice
 
 ROOT = Path(__file__).resolve().parents[1]
 TEMPLATE = ROOT / "workbook_template" / "errdist-monthly-risk.xlsx"
-UNO_SCRIPT = ROOT / "tests" / "uno_crosscheck.py"
-SYSTEM_PYTHON = "/usr/bin/python3"
 ARTIFACTS = ROOT / "test-artifacts" / "libreoffice"
 CHART_PAGES = 4
-
-
-def _require_tools() -> None:
-    if shutil.which("soffice") is None:
-        pytest.skip("LibreOffice (soffice) is not installed")
-    if not Path(SYSTEM_PYTHON).exists():
-        pytest.skip(f"{SYSTEM_PYTHON} is not installed (needed for python3-uno)")
-    probe = subprocess.run([SYSTEM_PYTHON, "-c", "import uno"], capture_output=True)
-    if probe.returncode != 0:
-        pytest.skip("python3-uno is not installed (import uno fails in /usr/bin/python3)")
 
 
 def _a1(r: int, c: int) -> str:
@@ -61,9 +50,8 @@ def _a1(r: int, c: int) -> str:
 
 
 @pytest.fixture(scope="module")
-def lo_run(tmp_path_factory: pytest.TempPathFactory) -> tuple[Book, dict, Path]:
+def lo_run(tmp_path_factory: pytest.TempPathFactory, libreoffice: Any) -> tuple[Book, dict, Path]:
     """Fill the ERRDIST_ cells of a copy with the core's values, recalculate, read, export."""
-    _require_tools()
     tmp = tmp_path_factory.mktemp("libreoffice")
     book = read_book(TEMPLATE)
     copy = tmp / "template-copy.xlsx"
@@ -83,17 +71,7 @@ def lo_run(tmp_path_factory: pytest.TempPathFactory) -> tuple[Book, dict, Path]:
         "pdf": str(tmp / "template.pdf"),
         "out": str(tmp / "result.json"),
     }
-    job_path = tmp / "job.json"
-    job_path.write_text(json.dumps(job))
-    proc = subprocess.run(
-        [SYSTEM_PYTHON, str(UNO_SCRIPT), str(job_path)],
-        capture_output=True,
-        text=True,
-        timeout=300,
-    )
-    assert proc.returncode == 0, proc.stderr[-2000:]
-    result = json.loads((tmp / "result.json").read_text())
-    return book, result, tmp / "template.pdf"
+    return book, libreoffice(job, tmp), tmp / "template.pdf"
 
 
 def _jsonable(v: object) -> object:
