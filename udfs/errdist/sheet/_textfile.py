@@ -9,6 +9,13 @@ from pathlib import Path
 __all__ = ["replace_text"]
 
 
+def _umask() -> int:
+    """The process's file-creation mask (read by setting and restoring it)."""
+    mask = os.umask(0o022)
+    os.umask(mask)
+    return mask
+
+
 def replace_text(path: Path, text: str, *, encoding: str, newline: str, prefix: str) -> None:
     """Write ``text`` to a temporary file beside ``path``, then move it onto ``path``.
 
@@ -19,6 +26,9 @@ def replace_text(path: Path, text: str, *, encoding: str, newline: str, prefix: 
     try:
         with os.fdopen(fd, "w", encoding=encoding, newline=newline) as fh:
             fh.write(text)
+        # mkstemp creates the file private (0600); give it the mode a plain write would have
+        mode = path.stat().st_mode & 0o777 if path.exists() else 0o666 & ~_umask()
+        os.chmod(tmp, mode)
         os.replace(tmp, path)
     except BaseException:
         Path(tmp).unlink(missing_ok=True)
