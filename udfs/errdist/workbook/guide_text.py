@@ -100,7 +100,11 @@ REFRESH: list[tuple[str, str]] = [
 
 INSTALL: list[tuple[str, str]] = [
     ("h2", "Installing the add-in (summary — see docs/install.md)"),
-    ("step", "1. Install Python 3.10 or later and the package:  pip install errdist"),
+    (
+        "step",
+        "1. Install Python 3.10 or later and the package:  pip install errdist  (from your "
+        "firm's package index)\n    or, in a clone of the errdist repository:  pip install .",
+    ),
     ("step", "2. Install the xlwings add-in into the spreadsheet program:  xlwings addin install"),
     (
         "step",

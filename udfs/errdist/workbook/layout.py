@@ -14,7 +14,7 @@ Cells are addressed in A1 notation on a named sheet; rows and columns inside the
 from __future__ import annotations
 
 import datetime as _dt
-from collections.abc import Iterator
+from collections.abc import Iterator, Sequence
 from dataclasses import dataclass, field
 from typing import Literal
 
@@ -48,6 +48,9 @@ class Entry:
     head_rows : int
         For a spill: leading rows of the result that are a header (shown in the header
         format).
+    cell_fmts : tuple of tuple of str
+        For a spill: one format name per cell of the result, row by row (``rows`` x ``cols``),
+        overriding ``fmt`` and the header format; empty: ``fmt`` for every cell.
     """
 
     row: int
@@ -60,6 +63,7 @@ class Entry:
     cols: int = 1
     span: int = 1
     head_rows: int = 0
+    cell_fmts: tuple[tuple[str, ...], ...] = ()
 
     @property
     def a1(self) -> str:
@@ -114,6 +118,8 @@ class SheetPlan:
     freeze: tuple[int, int] | None = None
     landscape: bool = False
     print_area: str = ""
+    repeat_rows: tuple[int, int] | None = None
+    """0-based first and last rows printed at the top of every page (a table's header)."""
     fit_width: bool = True
     page_breaks: list[int] = field(default_factory=list)
     tab_color: str = ""
@@ -138,7 +144,10 @@ class SheetPlan:
         """
         row, col = xl_cell_to_rowcol(cell)
         width = sum(self.col_widths.get(c, 8.43) for c in range(col, col + span))
-        chars_per_line = max(1.0, width * 1.05)
+        # About 1.2 characters of running text per unit of column width (a unit is one
+        # digit of the default font; measured on LibreOffice's PDF export, whose fallback
+        # font is wider than Calibri, so the estimate never cuts a line off).
+        chars_per_line = max(1.0, width * 1.2)
         lines = 0
         for part in value.split("\n"):
             lines += max(1, -(-len(part) // int(chars_per_line)))
@@ -166,14 +175,37 @@ class SheetPlan:
         return self._add(Entry(row, col, "formula", formula=formula, fmt=fmt))
 
     def spill(
-        self, cell: str, rows: int, cols: int, formula: str, fmt: str = "", head_rows: int = 0
+        self,
+        cell: str,
+        rows: int,
+        cols: int,
+        formula: str,
+        fmt: str = "",
+        head_rows: int = 0,
+        cell_fmts: Sequence[Sequence[str]] = (),
     ) -> Entry:
         """Put a dynamic-array formula at ``cell`` whose result fills ``rows`` x ``cols``
-        (the first ``head_rows`` rows of it a header)."""
+        (the first ``head_rows`` rows of it a header; ``cell_fmts``, if given, one format
+        name per cell of the result)."""
         if rows < 1 or cols < 1:
             raise ValueError(f"a spill needs at least one cell, got {rows} x {cols} at {cell}")
+        grid = tuple(tuple(r) for r in cell_fmts)
+        if grid and (len(grid) != rows or any(len(r) != cols for r in grid)):
+            raise ValueError(f"cell_fmts of the spill at {cell} must be {rows} x {cols}")
         row, col = xl_cell_to_rowcol(cell)
-        return self._add(Entry(row, col, "spill", formula=formula, fmt=fmt, rows=rows, cols=cols))
+        return self._add(
+            Entry(
+                row,
+                col,
+                "spill",
+                formula=formula,
+                fmt=fmt,
+                rows=rows,
+                cols=cols,
+                head_rows=head_rows,
+                cell_fmts=grid,
+            )
+        )
 
     def width(self, first_col: str, width: float, last_col: str | None = None) -> None:
         """Set the width of a column (or columns ``first_col:last_col``), e.g. ``"A"``."""

@@ -181,6 +181,96 @@ class _Ctx:
         return all(name in self.funcs for name in names)
 
 
+# Number formats of the labelled tables the catalog functions return, by row label (label /
+# value tables) or by column header; a true/false value always gets "bool", text none.
+_FIT_REPORT_FMTS: dict[str, str] = {
+    "n used": "int",
+    "blanks skipped": "int",
+    "mean": "pct3",
+    "median": "pct3",
+    "STDEV.S": "pct3",
+    "SKEW": "num4",
+    "KURT": "num4",
+    "MLE loc": "num",
+    "MLE scale": "num",
+    "MLE shape": "num4",
+    "MLE log-likelihood": "num2",
+    "MLE AIC": "num2",
+    "moments loc": "num",
+    "moments scale": "num",
+    "moments shape": "num4",
+    "moments log-likelihood": "num2",
+    "moments AIC": "num2",
+    "MLE shape at search bound": "bool",
+}
+_GOF_FMTS: dict[str, str] = {
+    "value": "num4",
+    "p-value": "pval",
+    "samples": "int",
+    "refit": "bool",
+    "loc": "num",
+    "scale": "num",
+    "shape": "num4",
+    "n": "int",
+}
+_COMPARE_FMTS: dict[str, str] = {
+    "loc": "num",
+    "scale": "num",
+    "shape_or_df": "num4",
+    "loglik": "num2",
+    "aic": "num2",
+    "bic": "num2",
+    "ks": "num4",
+    "var99": "pct",
+}
+_BACKTEST_FMTS: dict[str, str] = {
+    "observations": "int",
+    "exceptions": "int",
+    "expected exceptions": "num2",
+    "pairs dropped": "int",
+    "LR POF (Kupiec)": "num4",
+    "p-value POF": "pval",
+    "LR IND (Christoffersen)": "num4",
+    "p-value IND": "pval",
+    "LR CC (Christoffersen)": "num4",
+    "p-value CC": "pval",
+    "plus factor": "num2",
+}
+
+
+def _value_fmt(value: object, fmt: str) -> str:
+    """The format of one result cell: ``bool`` for a true/false value, else ``fmt``.
+
+    Text keeps the default (left) alignment whatever number format its row has.
+    """
+    return "bool" if isinstance(value, (bool, np.bool_)) else fmt
+
+
+def _label_value_fmts(
+    rows: Sequence[Sequence[object]], fmts: Mapping[str, str], head_rows: int = 0
+) -> list[list[str]]:
+    """Cell formats of a label / value table: labels plain, each value by its row's label."""
+    out: list[list[str]] = []
+    for i, row in enumerate(rows):
+        if i < head_rows:
+            out.append(["head"] + ["head_r"] * (len(row) - 1))
+            continue
+        label = str(row[0])
+        out.append([""] + [_value_fmt(v, fmts.get(label, "gen")) for v in row[1:]])
+    return out
+
+
+def _column_fmts(rows: Sequence[Sequence[object]], fmts: Mapping[str, str]) -> list[list[str]]:
+    """Cell formats of a table with a header row: each column by its header."""
+    heads = [str(h) for h in rows[0]]
+    out = [["head"] + ["head_r"] * (len(heads) - 1)]
+    for row in rows[1:]:
+        out.append(
+            ["" if j == 0 else _value_fmt(v, fmts.get(heads[j], "gen")) for j, v in enumerate(row)]
+        )
+    return out
+
+
 def _heading(sp: SheetPlan, title: str, subtitle: str) -> None:
     sp.text("A1", title, "title")
     sp.text("A2", subtitle, "subtitle")
@@ -258,7 +348,7 @@ def _guide(plan: Plan, ctx: _Ctx) -> None:
         if formula == "=ERRDIST_VERSION()":
             VOLATILE_CELLS[(GUIDE, e.a1)] = "ERRDIST_VERSION(): changes with each release"
         if note:
-            sp.text(f"C{row}", note, "note")
+            sp.text(f"C{row}", note, "note_i")
         row += 1
     row += 1
     for style, text in guide_text.blocks():
@@ -281,8 +371,9 @@ def _prices(plan: Plan, ctx: _Ctx) -> None:
     sp.width("B", 12)
     sp.width("D", 60)
     sp.freeze = (1, 0)
-    sp.text("A1", "Date", "head")
-    sp.text("B1", "Price", "head")
+    sp.text("A1", "Date", "head_r")
+    sp.text("B1", "Price", "head_r")
+    sp.repeat_rows = (0, 0)
     for i, (d, p) in enumerate(zip(ctx.dates, ctx.prices, strict=True)):
         sp.date(f"A{i + 2}", d, "input_date")
         sp.number(f"B{i + 2}", float(p), "input_price")
@@ -304,8 +395,9 @@ def _returns(plan: Plan, ctx: _Ctx) -> None:
     sp.width("D", 60)
     sp.freeze = (1, 0)
     n, last = ctx.n, ctx.n_prices + 1
-    sp.text("A1", "Date", "head")
-    sp.text("B1", "Log return", "head")
+    sp.text("A1", "Date", "head_r")
+    sp.text("B1", "Log return", "head_r")
+    sp.repeat_rows = (0, 0)
     sp.spill("A2", n, 1, f"=Prices!A3:A{last}", "date")
     sp.spill("B2", n, 1, f'=ERRDIST_RETURNS(Prices!B2:B{last},"log")', "pct3")
     sp.text("D1", "Daily log return ln(P_t / P_t-1), dated at the later price.", "note")
@@ -318,11 +410,11 @@ def _calibration(plan: Plan, ctx: _Ctx) -> None:
     sp.width("A", 34)
     sp.width("B", 15)
     sp.width("C", 15)
-    sp.width("D", 22)
+    sp.width("D", 32)
     sp.width("E", 15, "G")
     sp.width("H", 3)
-    sp.width("I", 24)
-    sp.width("J", 20)
+    sp.width("I", 26)
+    sp.width("J", 16)
     sp.landscape = True
     r = ctx.r
     _heading(
@@ -356,7 +448,15 @@ def _calibration(plan: Plan, ctx: _Ctx) -> None:
         for c in "EFG":
             sp.text(f"{c}4", "", "h2")
         sp.text("D5", "Method", "head")
-        sp.spill("E5", 2, 3, f'=ERRDIST_FIT({r},"moments",TRUE)', "num", head_rows=1)
+        sp.spill(
+            "E5",
+            2,
+            3,
+            f'=ERRDIST_FIT({r},"moments",TRUE)',
+            "num",
+            head_rows=1,
+            cell_fmts=[["head_r"] * 3, ["num"] * 3],
+        )
         sp.text("D6", "Moments (KURT, STDEV.S, MEDIAN)", "label")
         sp.spill("E7", 1, 3, f'=ERRDIST_FIT({r},"mle")', "num")
         sp.text("D7", "Maximum likelihood", "label_b")
@@ -373,7 +473,14 @@ def _calibration(plan: Plan, ctx: _Ctx) -> None:
         sp.text("I4", "Fit report (ERRDIST_FIT_REPORT)", "h2")
         sp.text("J4", "", "h2")
         rows = _call_entry("ERRDIST_FIT_REPORT", ctx.returns.reshape(-1, 1).tolist())
-        sp.spill("I5", len(rows), len(rows[0]), f"=ERRDIST_FIT_REPORT({r})", "gen")
+        sp.spill(
+            "I5",
+            len(rows),
+            len(rows[0]),
+            f"=ERRDIST_FIT_REPORT({r})",
+            "gen",
+            cell_fmts=_label_value_fmts(rows, _FIT_REPORT_FMTS),
+        )
         notes_top = 5 + len(rows) + 2
 
     _moments_by_hand(sp, ctx, top=15, notes_top=notes_top)
@@ -429,8 +536,8 @@ def _moments_by_hand(sp: SheetPlan, ctx: _Ctx, top: int, notes_top: int) -> None
     ctx.keys["hand_loc"] = absref(CALIB, loc_cell)
     check_row = scale_row + 1
     if ctx.has("ERRDIST_SOLVE_SHAPE", "ERRDIST_SOLVE_SCALE"):
-        sp.text(f"C{row}", "add-in", "head")
-        sp.text(f"D{row}", "relative difference", "head")
+        sp.text(f"C{row}", "add-in", "head_r")
+        sp.text(f"D{row}", "relative difference", "head_r")
         sp.formula(f"C{shape_row}", f"=ERRDIST_SOLVE_SHAPE({k_cell})", "num")
         sp.formula(f"C{scale_row}", f"=ERRDIST_SOLVE_SCALE({sd_cell},C{shape_row})", "num")
         sp.formula(f"D{shape_row}", f"=ABS({shape_cell}-C{shape_row})/C{shape_row}", "check")
@@ -454,7 +561,7 @@ def _moments_by_hand(sp: SheetPlan, ctx: _Ctx, top: int, notes_top: int) -> None
     row = check_row + 2
     sp.text(f"A{row}", "Bisection on t = ln b", "head")
     for c, h in zip("BCDE", ("t low", "t high", "t mid", "g(t mid)"), strict=True):
-        sp.text(f"{c}{row}", h, "head")
+        sp.text(f"{c}{row}", h, "head_r")
     first = row + 1
 
     def g(t: str) -> str:
@@ -479,9 +586,9 @@ def _moments_by_hand(sp: SheetPlan, ctx: _Ctx, top: int, notes_top: int) -> None
     row = first + _BISECTION_STEPS + 1
     sp.text(f"A{row}", "Newton steps on t", "head")
     for c, h in zip("BCDE", ("t", "g(t)", "g(t + h)", "g(t − h)"), strict=True):
-        sp.text(f"{c}{row}", h, "head")
+        sp.text(f"{c}{row}", h, "head_r")
     h_row = row - 1
-    sp.text(f"F{h_row}", "h =")
+    sp.text(f"F{h_row}", "Newton difference step h", "label_r")
     sp.number(f"G{h_row}", _NEWTON_H, "sci")
     hcell = f"$G${h_row}"
     for j in range(_NEWTON_STEPS + 1):
@@ -498,6 +605,9 @@ def _moments_by_hand(sp: SheetPlan, ctx: _Ctx, top: int, notes_top: int) -> None
     last_t = f"B{row + 1 + _NEWTON_STEPS}"
     sp.formula(shape_cell, f"=EXP({last_t})", "key")
     row += _NEWTON_STEPS + 3
+    # The explanation starts a printed page of its own rather than leaving its heading
+    # alone at the foot of the first.
+    sp.page_breaks.append(row - 1)
     sp.text(f"A{row}", "How the built-in moments fit works", "h2")
     for c in "BCDEFG":
         sp.text(f"{c}{row}", "", "h2")
@@ -512,7 +622,7 @@ def _risk(plan: Plan, ctx: _Ctx) -> None:
     sp = plan.add_sheet(RISK)
     sp.landscape = True
     sp.width("A", 34)
-    sp.width("B", 14, "G")
+    sp.width("B", 16, "G")
     _heading(
         sp,
         f"Value at Risk and Expected Shortfall — {ctx.fund}",
@@ -570,8 +680,9 @@ def _risk(plan: Plan, ctx: _Ctx) -> None:
         sp.text(f"A{top}", title, "h2")
         for c in "BCDEFG":
             sp.text(f"{c}{top}", "", "h2")
+        sp.row_heights[top - 1] = 27  # room above the section title
         for j, h in enumerate(heads):
-            sp.text(cell(top, j), h, "head")
+            sp.text(cell(top, j), h, "head_r")
         sp.row_heights[top] = 32
         for i, conf in enumerate(CONFIDENCES):
             rr = top + 2 + i
@@ -613,8 +724,9 @@ def _risk(plan: Plan, ctx: _Ctx) -> None:
     sp.text(f"A{top}", "Fitted / normal", "h2")
     for c in "BCDEFG":
         sp.text(f"{c}{top}", "", "h2")
+    sp.row_heights[top - 1] = 27
     for j, h in enumerate(heads):
-        sp.text(cell(top, j), h, "head")
+        sp.text(cell(top, j), h, "head_r")
     sp.row_heights[top] = 32
     for i in range(len(CONFIDENCES)):
         rr = top + 2 + i
@@ -624,11 +736,13 @@ def _risk(plan: Plan, ctx: _Ctx) -> None:
             sp.formula(f"{col}{rr}", f"={col}{16 + i}/{col}{22 + i}", "num2")
     # Money figures.
     top = 32
+    sp.page_breaks.append(top - 1)  # the money table and the notes on a page of their own
     sp.text(f"A{top}", "In money, one day (position value in B11)", "h2")
     for c in "BCDEFG":
         sp.text(f"{c}{top}", "", "h2")
+    sp.row_heights[top - 1] = 27
     for j, h in enumerate(("Confidence", "VaR 1 day", "ES 1 day")):
-        sp.text(cell(top, j), h, "head")
+        sp.text(cell(top, j), h, "head_r")
     for i in range(len(CONFIDENCES)):
         rr = top + 2 + i
         sp.formula(f"A{rr}", f"=A{16 + i}", "pct1")
@@ -656,7 +770,8 @@ def _fit_check(plan: Plan, ctx: _Ctx) -> None:
     sp.width("A", 26)
     sp.width("B", 13, "J")
     sp.width("K", 3)
-    sp.width("L", 13, "O")
+    sp.width("G", 15, "H")
+    sp.width("L", 16, "O")
     row = 4
     if ctx.has("ERRDIST_GOF"):
         sp.text(f"A{row}", "Goodness of fit (ERRDIST_GOF)", "h2")
@@ -674,7 +789,14 @@ def _fit_check(plan: Plan, ctx: _Ctx) -> None:
         rows = _call_entry("ERRDIST_GOF", *args)
         law = f"B{row + 1},C{row + 1},D{row + 1}"
         f = f'=ERRDIST_GOF({r},{law},"{GOF_STATISTIC}",{GOF_SAMPLES},{GOF_SEED})'
-        sp.spill(f"A{row + 2}", len(rows), len(rows[0]), f, "gen")
+        sp.spill(
+            f"A{row + 2}",
+            len(rows),
+            len(rows[0]),
+            f,
+            "gen",
+            cell_fmts=_label_value_fmts(rows, _GOF_FMTS),
+        )
         sp.text(
             f"D{row + 2}",
             "Anderson-Darling statistic A²; its p-value comes from "
@@ -708,6 +830,7 @@ def _fit_check(plan: Plan, ctx: _Ctx) -> None:
             f"=ERRDIST_COMPARE({r},TRUE)",
             "gen",
             head_rows=1,
+            cell_fmts=_column_fmts(rows, _COMPARE_FMTS),
         )
         row += len(rows) + 2
     # Histogram against the fitted density.
@@ -723,6 +846,7 @@ def _fit_check(plan: Plan, ctx: _Ctx) -> None:
             f"=ERRDIST_EMPIRICAL({r},{loc},{scale},{shape},TRUE)",
             "num",
             head_rows=1,
+            cell_fmts=[["head_r1"] * 4] + [["pct3", "num4", "num4", "pct3"]] * ctx.n,
         )
         ctx.keys["emp_first_row"] = str(e.row + 2)
         ctx.keys["emp_last_row"] = str(e.row + 1 + ctx.n)
@@ -766,7 +890,7 @@ def _histogram(sp: SheetPlan, ctx: _Ctx, row: int, loc: str, scale: str, shape: 
         "Normal density",
     )
     for j, h in enumerate(heads):
-        sp.text(cell(head - 1, j), h, "head")
+        sp.text(cell(head - 1, j), h, "head_r")
     first = head + 1
     last = first + HIST_BINS - 1
     for i in range(HIST_BINS):
@@ -780,7 +904,7 @@ def _histogram(sp: SheetPlan, ctx: _Ctx, row: int, loc: str, scale: str, shape: 
         sp.formula(f"D{rr}", f"=(B{rr}+C{rr})/2", "pct3")
         sp.formula(f"F{rr}", f"=E{rr}/({ncell}*{wcell})", "num2")
         sp.formula(f"H{rr}", f"=NORM.DIST(D{rr},{ctx.keys['mean']},{ctx.keys['sd']},FALSE)", "num2")
-    sp.text(f"A{last + 1}", "above", "note")
+    sp.text(f"A{last + 1}", "above the last upper edge", "note")
     sp.spill(f"E{first}", HIST_BINS + 1, 1, f"=FREQUENCY({r},C{first}:C{last})", "int")
     if ctx.has("ERRDIST_PDF"):
         sp.spill(
@@ -792,12 +916,13 @@ def _histogram(sp: SheetPlan, ctx: _Ctx, row: int, loc: str, scale: str, shape: 
         )
     ctx.keys["hist_first"] = str(first)
     ctx.keys["hist_last"] = str(last)
-    sp.text(
+    sp.paragraph(
         f"A{last + 2}",
         "Density = count / (observations × bin width), comparable with "
         "the fitted and normal densities at the bin midpoints. FREQUENCY's extra last "
         "cell counts returns above the last upper edge (always 0 here).",
-        "note",
+        8,
+        "note_wrap",
     )
     return last + 3
 
@@ -814,7 +939,7 @@ def _backtest(plan: Plan, ctx: _Ctx) -> None:
         f"Rolling {BACKTEST_WINDOW}-day one-day VaR at {BACKTEST_CONFIDENCE:.0%} "
         "(maximum likelihood refit each day) against the return that followed.",
     )
-    for c, w in zip("ABCDEFGHIJKL", (12, 12, 12, 11, 12, 12, 3, 26, 30, 3, 26, 30), strict=True):
+    for c, w in zip("ABCDEFGHIJKL", (12, 12, 14, 11, 19, 12, 3, 26, 30, 3, 26, 30), strict=True):
         sp.width(c, w)
     sp.text("A4", "Window (returns)")
     sp.number("C4", BACKTEST_WINDOW, "input_num")
@@ -823,9 +948,9 @@ def _backtest(plan: Plan, ctx: _Ctx) -> None:
     top = 7
     heads = ("Date", "Return", "VaR forecast", "Exception", "Exception return", "−VaR")
     for j, h in enumerate(heads):
-        sp.text(cell(top - 1, j), h, "head")
-    sp.row_heights[top - 1] = 32
+        sp.text(cell(top - 1, j), h, "head_r")
     sp.freeze = (top, 0)
+    sp.repeat_rows = (top - 1, top - 1)
     first, last = top + 1, top + n
     f0 = first + BACKTEST_WINDOW  # first row with a forecast
     ret = f"B{first}:B{last}"
@@ -891,6 +1016,7 @@ def _backtest(plan: Plan, ctx: _Ctx) -> None:
                     f"=ERRDIST_BACKTEST(B{r0}:B{last},C{r0}:C{last},$C$5,TRUE)",
                     "gen",
                     head_rows=1,
+                    cell_fmts=_label_value_fmts(rows_bt, _BACKTEST_FMTS, head_rows=1),
                 )
                 for i, rr in enumerate(rows_bt):
                     if col == "K" and str(rr[0]).strip().lower() == "zone":
@@ -923,13 +1049,9 @@ def _conf(plan: Plan) -> None:
         "Read by the xlwings add-in: keys in column A from A1 down, values in column B.",
         "note",
     )
-    sp.text(
-        "D2",
-        "UDF Modules names the Python module that holds the ERRDIST_ functions. "
-        "Other settings (interpreter, conda) can go in the rows below A1.",
-        "note",
-    )
-    sp.print_area = "A1:D2"
+    sp.text("D2", "UDF Modules names the Python module that holds the ERRDIST_ functions.", "note")
+    sp.text("D3", "Other settings (interpreter, conda) can go in the rows below A1.", "note")
+    sp.print_area = "A1:D3"
 
 
 # ---------------------------------------------------------------------------------- build

@@ -32,10 +32,24 @@ FORMATS: dict[str, dict[str, object]] = {
     "subtitle": {"italic": True, "font_color": "#595959"},
     "h2": {"bold": True, "font_size": 12, "font_color": "#1F3864", "bottom": 1},
     "head": {"bold": True, "bg_color": "#DDE4EE", "bottom": 1, "text_wrap": True, "valign": "top"},
+    "head_r": {
+        "bold": True,
+        "bg_color": "#DDE4EE",
+        "bottom": 1,
+        "text_wrap": True,
+        "valign": "top",
+        "align": "right",
+    },
+    # One-line header: for a header row that shares its row with other content, where a
+    # wrapped header would make the spreadsheet grow the whole row.
+    "head_r1": {"bold": True, "bg_color": "#DDE4EE", "bottom": 1, "align": "right"},
     "label": {},
     "label_b": {"bold": True},
+    "label_r": {"align": "right"},
     "note": {"italic": True, "font_color": "#595959"},
+    "note_i": {"italic": True, "font_color": "#595959", "indent": 1},
     "wrap": {"text_wrap": True, "valign": "top"},
+    "note_wrap": {"italic": True, "font_color": "#595959", "text_wrap": True, "valign": "top"},
     "input": {"bg_color": "#FFF2CC", "border": 1, "border_color": "#BFBFBF"},
     "input_pct": {
         "bg_color": "#FFF2CC",
@@ -60,6 +74,10 @@ FORMATS: dict[str, dict[str, object]] = {
     "num4": {"num_format": "0.0000"},
     "sci": {"num_format": "0.000E+00"},
     "int": {"num_format": "0"},
+    "pval": {"num_format": "0.000"},
+    # A true/false result reads TRUE/FALSE even where it arrives as 1/0 (LibreOffice stores
+    # booleans as numbers); a spreadsheet that keeps a real boolean shows it as such anyway.
+    "bool": {"num_format": '"TRUE";"TRUE";"FALSE"', "align": "right"},
     "money": {"num_format": "#,##0"},
     "gen": {"num_format": "General"},
     "key": {"bold": True, "num_format": "0.000000", "bg_color": "#E2EFDA"},
@@ -207,9 +225,16 @@ def _write_entry(
         ws.write_formula(e.row, e.col, e.formula, fmt, "" if value is None else value)
     elif e.kind == "spill":
         head = fmts["head"] if e.head_rows else None
+
+        def cell_fmt(r: int, c: int):
+            if e.cell_fmts:
+                name = e.cell_fmts[r - e.row][c - e.col]
+                return fmts.get(name) if name else fmt
+            return head if r < e.row + e.head_rows else fmt
+
         anchor = normalise_value(values.get((sheet, e.a1), 0.0)) if values is not None else 0
         ws.write_dynamic_array_formula(
-            e.ref, e.formula, head or fmt, "" if anchor is None else anchor
+            e.ref, e.formula, cell_fmt(e.row, e.col), "" if anchor is None else anchor
         )
         if values is None:
             # First pass, for the engine: the anchor alone. XlsxWriter pads the rest of the
@@ -222,9 +247,8 @@ def _write_entry(
         for r, c in e.cells():
             if (r, c) == (e.row, e.col):
                 continue
-            cell_fmt = head if r < e.row + e.head_rows else fmt
             key = (sheet, xl_rowcol_to_cell_fast(r, c))
-            _write_value(ws, r, c, normalise_value(values.get(key, "")), cell_fmt)
+            _write_value(ws, r, c, normalise_value(values.get(key, "")), cell_fmt(r, c))
     else:  # pragma: no cover - Entry kinds are closed
         raise ValueError(f"unknown entry kind {e.kind!r}")
 
@@ -262,6 +286,8 @@ def _setup_sheet(ws: Worksheet, sp: SheetPlan) -> None:
     ws.set_margins(left=0.5, right=0.5, top=0.6, bottom=0.6)
     if sp.print_area:
         ws.print_area(sp.print_area)
+    if sp.repeat_rows is not None:
+        ws.repeat_rows(*sp.repeat_rows)
     if sp.fit_width:
         ws.fit_to_pages(1, 0)
     if sp.page_breaks:
