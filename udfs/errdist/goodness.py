@@ -43,7 +43,7 @@ from scipy import special as _special
 from errdist import distribution as _dist
 from errdist import estimate as _est
 from errdist.errors import DomainError, InputTypeError
-from errdist.mle import _mle_sorted
+from errdist.mle_batch import mle_sorted_rows
 
 __all__ = [
     "STATISTICS",
@@ -305,16 +305,14 @@ def _refit_rows(
 ) -> tuple[NDArray[np.float64], NDArray[np.float64], NDArray[np.float64]]:
     """MLE (loc, scale, shape) of every row of ascending-sorted simulated data.
 
-    Uses the estimator of :func:`errdist.estimate.fit` through its lean entry point for
-    sorted samples, warm-started at the shape the rows were simulated with (the start only
-    changes where the search begins, not the maximum it finds).
+    The exact MLE of :func:`errdist.estimate.fit`, for all rows at once
+    (:func:`errdist.mle_batch.mle_sorted_rows`: the one-sample search of
+    :func:`errdist.mle._mle_sorted` run on every row together, rows it cannot settle refitted
+    by ``_mle_sorted`` itself), warm-started at the shape the rows were simulated with (the
+    start only changes where the search begins, not the maximum it finds).
     """
-    rows = sim_sorted.shape[0]
-    out = np.empty((3, rows))
-    for r in range(rows):
-        loc, scale, shape, _ = _mle_sorted(sim_sorted[r], shape_hint)
-        out[0, r], out[1, r], out[2, r] = loc, scale, shape
-    return out[0], out[1], out[2]
+    loc, scale, shape, _ = mle_sorted_rows(sim_sorted, shape_hint)
+    return loc, scale, shape
 
 
 def _bootstrap_statistic(
