@@ -580,8 +580,9 @@ def _quantile(
         return loc - t if upper else loc + t
     pa = _check_p(p)
     m, a, b = _params(loc, scale, shape)
-    ta = a * _std_quantile(pa, b)
-    return _out(m - ta if upper else m + ta)
+    with np.errstate(over="ignore"):  # beyond the float range: ±inf, as on the scalar path
+        ta = a * _std_quantile(pa, b)
+        return _out(m - ta if upper else m + ta)
 
 
 def ppf(
@@ -727,7 +728,13 @@ def rvs(
     u = rng.random(out_shape)
     negative = rng.random(out_shape) < 0.5
     w = g**c * np.where(small, u, 1.0)
-    return _out(m + a * np.where(negative, -w, w))
+    with np.errstate(over="ignore", invalid="ignore"):
+        draws = m + a * np.where(negative, -w, w)
+    if not np.all(np.isfinite(draws)):
+        raise DomainError(
+            "draws overflow the float range: loc or scale is too large for this shape"
+        )
+    return _out(draws)
 
 
 # --------------------------------------------------------------------------------------------

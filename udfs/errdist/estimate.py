@@ -130,7 +130,13 @@ def loglik(data: Any, loc: float, scale: float, shape: float) -> float:
     """
     loc, scale, shape = _check_params(loc, scale, shape)
     x, _ = clean_sample(data, min_count=1)
-    return _loglik(x, loc, scale, shape)
+    with np.errstate(over="ignore", invalid="ignore"):
+        value = _loglik(x, loc, scale, shape)
+    if not math.isfinite(value):
+        raise DomainError(
+            "log-likelihood exceeds the float range: the data lie too many scales from loc"
+        )
+    return value
 
 
 def _make_fit(

@@ -139,6 +139,28 @@ def _risk(
     amount: Any,
     horizon_rule: Any,
 ) -> tuple[NDArray[np.float64], NDArray[np.float64], bool]:
+    """Return (VaR, ES) arrays and whether every input was a scalar; DomainError on overflow."""
+    with np.errstate(over="ignore", invalid="ignore"):
+        var, es, scalar = _risk_unchecked(
+            confidence, loc, scale, shape, horizon, amount, horizon_rule
+        )
+    if not (np.all(np.isfinite(var)) and np.all(np.isfinite(es))):
+        raise DomainError(
+            "VaR or Expected Shortfall exceeds the float range: loc, scale, horizon or "
+            "amount is too large"
+        )
+    return var, es, scalar
+
+
+def _risk_unchecked(
+    confidence: ArrayLike,
+    loc: ArrayLike,
+    scale: ArrayLike,
+    shape: ArrayLike,
+    horizon: Any,
+    amount: Any,
+    horizon_rule: Any,
+) -> tuple[NDArray[np.float64], NDArray[np.float64], bool]:
     """Return (VaR, ES) arrays and whether every input was a scalar."""
     c = _check_confidence(confidence)
     check_params(loc, scale, shape)
