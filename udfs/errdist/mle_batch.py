@@ -48,10 +48,12 @@ _LOG2 = math.log(2.0)
 _EXHAUSTIVE_N = 400  # as errdist.mle: below this, b <= 1 searches every observation
 _HALF_WINDOW = 8
 _ZERO_LOG = -1e300  # stands for ln 0 (exp(b·it) = 0 and 0·it = 0, without NaN)
-_BLOCK = 1 << 21  # elements of one (rows × candidates × observations) block
-_SERIES_EPS = 1.5e-14  # far-field series truncation: ρ^−(K+1) below this
+_BLOCK = 1 << 16  # elements of one (rows × candidates × observations) block (cache-sized)
+_SERIES_EPS = 1e-16  # far-field series: relative truncation error per observation
 _RHO_MIN = 3.0  # nearest far observation at least this many window half-widths away
 _RECENTRE = 6  # b <= 1 window searches per location step (re-centred on the best)
+_NEAR_MULT = 7  # near observations: this many window widths (direct sums)
+_MAX_TERMS = 60  # longest far-field series
 _NEWTON_PASSES = 30  # joint Newton passes before a row moves on to the alternation
 
 FloatArray = NDArray[np.float64]
@@ -395,7 +397,7 @@ class _Local:
         c = xs[ridx, lo + size // 2]
         self.c = c
         w = np.maximum(c - self.cand[:, 0], self.cand[:, -1] - c)
-        nsize = min(7 * size, n)
+        nsize = min(_NEAR_MULT * size, n)
         nlo = np.clip(lo + size // 2 - nsize // 2, 0, n - nsize)
         nhi = nlo + nsize
         self.near = xs[ridx[:, None], nlo[:, None] + np.arange(nsize)]
@@ -403,60 +405,104 @@ class _Local:
         right = np.where(nhi < n, xs[ridx, np.minimum(nhi, n - 1)] - c, np.inf)
         rho = np.minimum(left, right) / w
         self.sure = (rho >= _RHO_MIN) & (w > 0.0)
-        self.coef = np.zeros((rows, 1))
+        self.coef = np.zeros((rows, 2))
+        self.dcoef: tuple[FloatArray, FloatArray] | None = None
         if nsize == n:
             return
         rho_min = max(float(np.min(rho[self.sure])) if np.any(self.sure) else _RHO_MIN, _RHO_MIN)
-        terms = 1
-        while (terms + 1) * rho_min ** (-terms) >= _SERIES_EPS:
-            terms += 1
+        # binomial factors C(b, k)·(−1)^k of every row, up to the largest useful order
+        beta = np.ones((rows, _MAX_TERMS + 1))
+        for k in range(1, _MAX_TERMS + 1):
+            beta[:, k] = beta[:, k - 1] * (-(b - k + 1.0) / k)
+        # an observation at ρ = |D|/w leaves out at most cmax·ρ^−k/(1 − 1/ρ) of its own term
+        # |D|^b after k terms (cmax bounds |C(b, j)|); its terms stop at the first k where
+        # that is below _SERIES_EPS / _MAX_TERMS (the T series multiplies term k by k)
+        cmax = max(float(np.max(np.abs(beta))), 1.0)
+        log_need = math.log(1.5 * cmax * _MAX_TERMS / _SERIES_EPS)
+        terms = min(int(math.ceil(log_need / math.log(rho_min))), _MAX_TERMS)
         pos = np.arange(n)
         far = (pos < nlo[:, None]) | (pos >= nhi[:, None])
         dd = xs - c[:, None]
         dd[~far] = 1.0  # placeholder, weight zeroed below
         r = 1.0 / dd
         t = np.abs(dd)
+        colmin = np.min(np.where(far, t, np.inf), axis=0) / float(np.max(w))  # ≤ ρ per column
         _pow_in_place(t, b[:, None])
         t[~far] = 0.0
-        coef = np.empty((rows, terms + 1))
+        coef = np.zeros((rows, terms + 1))
         coef[:, 0] = t.sum(axis=1)
-        beta = np.ones(rows)
+        lo_col, hi_col = 0, n
         for k in range(1, terms + 1):
-            t *= r
-            beta *= -(b - k + 1.0) / k  # C(b, k)·(−1)^k
-            coef[:, k] = beta * t.sum(axis=1)
+            # columns holding an observation that still needs term k (nested, shrinking)
+            need = np.flatnonzero(colmin[lo_col:hi_col] < math.exp(log_need / k))
+            if need.size == 0:
+                break
+            lo_col, hi_col = lo_col + int(need[0]), lo_col + int(need[-1]) + 1
+            tv = t[:, lo_col:hi_col]
+            tv *= r[:, lo_col:hi_col]
+            coef[:, k] = beta[:, k] * tv.sum(axis=1)
         self.coef = coef
 
     def far_s(self, m: FloatArray) -> FloatArray:
-        """Far part of S_b at points m (rows × points), Horner."""
-        delta = m - self.c[:, None]
-        acc = np.zeros_like(delta)
-        for k in range(self.coef.shape[1] - 1, -1, -1):
-            acc *= delta
-            acc += self.coef[:, k : k + 1]
-        return acc
+        """Far part of S_b at points m (rows × points): Σ_k coef_k δ^k."""
+        return _series(m - self.c[:, None], self.coef)
 
-    def far_t(
-        self, m: FloatArray, idx: NDArray[np.intp] | None = None
-    ) -> tuple[FloatArray, FloatArray]:
-        """Far parts of T = −(1/b)·S′ and T′ = −(1/b)·S″ at points m (rows ``idx`` × points)."""
-        coef, c, b = (
-            (self.coef, self.c, self.b)
-            if idx is None
-            else (self.coef[idx], self.c[idx], self.b[idx])
-        )
-        delta = m - c[:, None]
-        d1 = np.zeros_like(delta)
-        d2 = np.zeros_like(delta)
-        kmax = coef.shape[1] - 1
-        for k in range(kmax, 0, -1):
-            d2 *= delta
-            if k >= 2:
-                d2 += (k * (k - 1)) * coef[:, k : k + 1]
-            d1 *= delta
-            d1 += k * coef[:, k : k + 1]
-        inv = (-1.0 / b)[:, None]
-        return d1 * inv, d2 * inv
+    def _derivative_coefs(self) -> tuple[FloatArray, FloatArray]:
+        """Series coefficients of the far parts of T = −(1/b)·S′ and T′ = −(1/b)·S″."""
+        if self.dcoef is None:
+            k = np.arange(self.coef.shape[1], dtype=float)
+            inv = (-1.0 / self.b)[:, None]
+            self.dcoef = (
+                self.coef[:, 1:] * k[1:] * inv,
+                self.coef[:, 2:] * (k[2:] * k[1:-1]) * inv,
+            )
+        return self.dcoef
+
+    def far_t_grid(self, m: FloatArray) -> FloatArray:
+        """Far part of T at points m (rows × points)."""
+        return _series(m - self.c[:, None], self._derivative_coefs()[0])
+
+    def far_t(self, m: FloatArray, idx: NDArray[np.intp]) -> tuple[FloatArray, FloatArray]:
+        """Far parts of T and T′ at one point m per row ``idx``."""
+        d1, d2 = (v[idx] for v in self._derivative_coefs())
+        powers = np.vander(m - self.c[idx], d1.shape[1], increasing=True)
+        return np.einsum("rk,rk->r", powers, d1), np.einsum("rk,rk->r", powers[:, :-1], d2)
+
+
+def _series(delta: FloatArray, coef: FloatArray) -> FloatArray:
+    """Σ_k coef[r, k]·delta[r, p]^k for every row r and point p."""
+    rows, npts = delta.shape
+    powers = np.vander(delta.ravel(), coef.shape[1], increasing=True).reshape(rows, npts, -1)
+    return np.einsum("rpk,rk->rp", powers, coef)
+
+
+def _pair_sums(pts: FloatArray, obs: FloatArray, e: FloatArray, signed: bool = False) -> FloatArray:
+    """Σ_j |obs_j − pts_i|^e (or Σ_j sign(obs_j − pts_i)|obs_j − pts_i|^e) per row and point.
+
+    ``pts`` (rows × points), ``obs`` (rows × m), ``e`` (rows,) > 0; a pair at distance 0 adds
+    0. Evaluated in cache-sized blocks of rows.
+    """
+    rows, npts = pts.shape
+    m = obs.shape[1]
+    out = np.empty((rows, npts))
+    step = max(1, _BLOCK // (npts * m))
+    buf = np.empty(min(step, rows) * npts * m)
+    sgn = np.empty_like(buf) if signed else None
+    for k in range(0, rows, step):
+        r = min(step, rows - k)
+        dist = buf[: r * npts * m].reshape(r, npts, m)
+        np.subtract(obs[k : k + r, None, :], pts[k : k + r, :, None], out=dist)
+        if sgn is not None:
+            sg = sgn[: r * npts * m].reshape(r, npts, m)
+            np.sign(dist, out=sg)
+        np.abs(dist, out=dist)
+        np.log(dist, out=dist)  # −inf at distance 0: exp(−inf·e) = 0
+        dist *= e[k : k + r, None, None]
+        np.exp(dist, out=dist)
+        if sgn is not None:
+            dist *= sg
+        dist.sum(axis=2, out=out[k : k + r])
+    return out
 
 
 def _near_pow(near: FloatArray, pts: FloatArray, e: FloatArray) -> tuple[FloatArray, FloatArray]:
@@ -482,14 +528,7 @@ def _loc_discrete(
     """
     rows, n = xs.shape
     if n <= _EXHAUSTIVE_N:
-        s = np.empty((rows, n))
-        step = max(1, _BLOCK // (n * n))
-        for k in range(0, rows, step):
-            blk = xs[k : k + step]
-            dist = np.abs(blk[:, :, None] - blk[:, None, :])
-            _pow_in_place(dist, b[k : k + step, None, None])
-            s[k : k + step] = dist.sum(axis=2)
-        best = np.argmin(s, axis=1)
+        best = np.argmin(_pair_sums(xs, xs, b), axis=1)
         return xs[np.arange(rows), best], np.ones(rows, dtype=bool)
     m = m0.copy()
     sure = np.zeros(rows, dtype=bool)
@@ -508,15 +547,9 @@ def _window_best(
     xs: FloatArray, b: FloatArray, m0: FloatArray, h: int
 ) -> tuple[FloatArray, NDArray[np.bool_], NDArray[np.bool_]]:
     """Best candidate of a :class:`_Local` window: (m, series fine, near an inner edge)."""
-    rows = xs.shape[0]
     loc = _Local(xs, b, m0, h)
     s = loc.far_s(loc.cand)
-    nsize = loc.near.shape[1]
-    step = max(1, _BLOCK // (loc.size * nsize))
-    for k in range(0, rows, step):
-        dist = np.abs(loc.cand[k : k + step, :, None] - loc.near[k : k + step, None, :])
-        _pow_in_place(dist, b[k : k + step, None, None])
-        s[k : k + step] += dist.sum(axis=2)
+    s += _pair_sums(loc.cand, loc.near, b)
     best = np.argmin(s, axis=1)
     margin = loc.h // 2
     edge_lo = (best < margin) & ~loc.at_lo
@@ -539,13 +572,8 @@ def _loc_smooth_local(
         return _loc_smooth(xs, b, m0, tol)
     loc = _Local(xs, b, m0, _HALF_WINDOW)
     bm1 = b - 1.0
-    t_far, _ = loc.far_t(loc.cand)
-    tc = t_far
-    step = max(1, _BLOCK // (loc.size * loc.near.shape[1]))
-    for k in range(0, rows, step):
-        sl = slice(k, k + step)
-        d, q = _near_pow(loc.near[sl], loc.cand[sl], bm1[sl])
-        tc[sl] += np.copysign(q, d).sum(axis=2)
+    tc = loc.far_t_grid(loc.cand)
+    tc += _pair_sums(loc.cand, loc.near, bm1, signed=True)
     above = np.count_nonzero(tc > 0.0, axis=1)  # T decreasing: candidates left of the root
     sure = loc.sure & (above > 0) & (above < loc.size)
     k = np.clip(above, 1, loc.size - 1)
@@ -567,8 +595,7 @@ def _loc_smooth_local(
         ma = m[act]
         d, q = _near_pow(near[act], ma[:, None], bm1[act])
         d, q = d[:, 0, :], q[:, 0, :]
-        ft, fd = loc.far_t(ma[:, None], act)
-        ft, fd = ft[:, 0], fd[:, 0]
+        ft, fd = loc.far_t(ma, act)
         t = np.copysign(q, d).sum(axis=1) + ft
         ad = np.abs(d)
         np.divide(q, ad, out=q, where=ad > 0.0)
