@@ -370,13 +370,14 @@ def _lower_gamma_series(
 
     Power series (Abramowitz & Stegun 6.5.29; Press et al., *Numerical Recipes*, §6.2)
 
-        P(s, z) = z^s e^(−z) / Γ(s+1) · Σ_k z^k / ((s+1)(s+2)…(s+k)),
+        P(s, z) = z^s e^(−z) / Γ(s+1) · Σ_k c_k z^k,   c_k = 1/((s+1)(s+2)…(s+k)),
 
-    with ``z^s = |d|`` exactly. All terms are positive; the sum is cut when the remainder,
-    bounded by the geometric tail ``t_k·r/(1 − r)``, ``r = z/(s+k+1)``, is below 1e-17 of the
-    sum for the largest ``z`` evaluated (``z <= 2.5 s + 1``, the entries not ``skip``ped; the
-    ``skip``ped entries are evaluated as ``z = 0`` and must be replaced by the caller).
-    ``s`` has one value per row of ``z`` (rows,) or (rows, 1), or a single value.
+    with ``z^s = |d|`` exactly, summed by Horner's rule. All terms are positive; the sum is
+    cut at the first k where the remainder, bounded by the geometric tail ``t_k·r/(1 − r)``,
+    ``r = z/(s+k+1)``, is below 1e-17 of the sum for the largest ``z`` evaluated (``z <=
+    2.5 s + 1``, the entries not ``skip``ped) on every row. The ``skip``ped entries are
+    evaluated as ``z = 0`` and must be replaced by the caller. ``s`` has one value per row of
+    ``z`` ((rows,) or (rows, 1)) or a single value.
     """
     if z.ndim == 1:
         return _lower_gamma_series(s, z[None, :], ad[None, :], skip[None, :])[0]
@@ -393,13 +394,14 @@ def _lower_gamma_series(
         r = zmax / (s[:, 0] + terms + 1.0)
         if np.all((r < 1.0) & (t * r <= 1e-17 * tot * (1.0 - r))):
             break
-    inv = 1.0 / (s + np.arange(1, terms + 1))  # (rows, terms)
-    term = np.ones_like(zs)
-    acc = np.ones_like(zs)
-    for k in range(terms):
-        term *= zs
-        term *= inv[:, k : k + 1]
-        acc += term
+    coef = np.cumprod(1.0 / (s + np.arange(1, terms + 1)), axis=1)  # c_1 … c_K per row
+    acc = np.empty_like(zs)
+    acc[...] = coef[:, terms - 1 :]
+    for k in range(terms - 2, -1, -1):
+        acc *= zs
+        acc += coef[:, k : k + 1]
+    acc *= zs
+    acc += 1.0
     pref = np.exp(-zs)
     pref *= ad
     pref *= np.exp(-_special.gammaln(s + 1.0))
