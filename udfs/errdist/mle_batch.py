@@ -420,15 +420,16 @@ class _Local:
         cmax = max(float(np.max(np.abs(beta))), 1.0)
         log_need = math.log(1.5 * cmax * _MAX_TERMS / _SERIES_EPS)
         terms = min(int(math.ceil(log_need / math.log(rho_min))), _MAX_TERMS)
-        pos = np.arange(n)
-        far = (pos < nlo[:, None]) | (pos >= nhi[:, None])
+        near_at = (ridx[:, None], nlo[:, None] + np.arange(nsize))
         dd = xs - c[:, None]
-        dd[~far] = 1.0  # placeholder, weight zeroed below
+        dd[near_at] = np.inf  # near observations: out of the series (r = 0, weight zeroed)
         r = 1.0 / dd
         t = np.abs(dd)
-        colmin = np.min(np.where(far, t, np.inf), axis=0) / float(np.max(w))  # ≤ ρ per column
-        _pow_in_place(t, b[:, None])
-        t[~far] = 0.0
+        colmin = np.min(t, axis=0) / float(np.max(w))  # ≤ ρ of every far observation per column
+        np.log(t, out=t)  # far observations are not at c: no log 0
+        t *= b[:, None]
+        np.exp(t, out=t)
+        t[near_at] = 0.0
         coef = np.zeros((rows, terms + 1))
         coef[:, 0] = t.sum(axis=1)
         lo_col, hi_col = 0, n
