@@ -54,6 +54,7 @@ _RHO_MIN = 3.0  # nearest far observation at least this many window half-widths 
 _RECENTRE = 6  # b <= 1 window searches per location step (re-centred on the best)
 _NEAR_MULT = 7  # near observations: this many window widths (direct sums)
 _MAX_TERMS = 60  # longest far-field series
+_TAIL_ROWS = 8  # rows left in the alternation that are handed to the one-row fit
 _NEWTON_PASSES = 30  # joint Newton passes before a row moves on to the alternation
 
 FloatArray = NDArray[np.float64]
@@ -663,7 +664,9 @@ def _alternate(
         searched[:] = b0
     act = np.flatnonzero(alive)
     for _ in range(100):
-        if act.size == 0:
+        if act.size <= _TAIL_ROWS:
+            # a few slow rows: a batched round costs more than the one-row fit (the caller
+            # refits the rows left not certain)
             break
         x = xs[act]
         lg = _log_abs(x, m[act])
