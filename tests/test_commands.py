@@ -187,3 +187,24 @@ def test_check_exit_1_on_mismatch(tmp_path, capsys):
     text = capsys.readouterr().out
     assert "Prices!C1" in text and "1 of" in text
     assert cli.main(["check", str(tmp_path / "absent.xlsx")]) == 2
+
+
+def test_progress_announces_slow_steps_while_they_run(monkeypatch):
+    import io
+    import time
+
+    from errdist.workbook import commands
+
+    monkeypatch.setattr(commands, "PROGRESS_AFTER", 0.02)
+    stream = io.StringIO()
+    progress = commands._Progress(stream)
+    with progress.step("quick"):
+        pass
+    with progress.step("slow"):
+        time.sleep(0.2)
+        assert stream.getvalue() == "slow…\n"  # announced before the step ends
+    lines = stream.getvalue().splitlines()
+    assert lines[0] == "slow…"
+    assert lines[1].startswith("slow: done in ")
+    assert len(lines) == 2  # the quick step printed nothing
+    assert set(progress.timings) == {"quick", "slow"}

@@ -6,8 +6,8 @@ subclasses, which the CLI prints as one line (exit code 2). Workbooks are writte
 (:mod:`errdist.workbook.atomic`): the output file is either complete or not there at all, and
 an existing file is overwritten only with ``--force``.
 
-Progress lines for steps that take a second or more go to standard error
-(``evaluating workbook… 4.1 s``); the summary goes to standard output.
+A step still running after a second is announced on standard error (``evaluating workbook…``,
+then ``evaluating workbook: done in 4.1 s``); the summary goes to standard output.
 """
 
 from __future__ import annotations
@@ -16,6 +16,7 @@ import argparse
 import math
 import re
 import sys
+import threading
 import time
 from collections.abc import Callable, Iterator, Mapping
 from contextlib import contextmanager
@@ -35,21 +36,43 @@ MAX_LISTED = 50
 
 
 class _Progress:
-    """Times named steps; reports those that take ``PROGRESS_AFTER`` seconds or more."""
+    """Times named steps; announces a step still running after ``PROGRESS_AFTER`` seconds.
+
+    A step that is still running after ``PROGRESS_AFTER`` seconds prints ``name…`` at once
+    (from a timer thread), and ``name: done in 2.3 s`` when it ends; quicker steps print
+    nothing.
+    """
 
     def __init__(self, stream: TextIO | None = None) -> None:
         self.stream = stream
         self.timings: dict[str, float] = {}
+        self._lock = threading.Lock()
+
+    def _say(self, text: str) -> None:
+        with self._lock:
+            sys.stdout.flush()
+            print(text, file=self.stream or sys.stderr, flush=True)
 
     @contextmanager
     def step(self, name: str) -> Iterator[None]:
+        announced = threading.Event()
+
+        def announce() -> None:
+            announced.set()
+            self._say(f"{name}…")
+
+        timer = threading.Timer(PROGRESS_AFTER, announce)
+        timer.daemon = True
         t0 = time.perf_counter()
-        yield
-        elapsed = time.perf_counter() - t0
-        self.timings[name] = elapsed
-        if elapsed >= PROGRESS_AFTER:
-            sys.stdout.flush()
-            print(f"{name}… {elapsed:.1f} s", file=self.stream or sys.stderr, flush=True)
+        timer.start()
+        try:
+            yield
+        finally:
+            timer.cancel()
+            elapsed = time.perf_counter() - t0
+            self.timings[name] = elapsed
+            if announced.is_set():
+                self._say(f"{name}: done in {elapsed:.1f} s")
 
 
 def _evaluator_with_progress(
