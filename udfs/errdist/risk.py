@@ -130,20 +130,10 @@ def _std_tail_mean(u: NDArray[np.float64], t: NDArray[np.float64], b: NDArray[np
     return -np.exp(log_ratio) * sc.gammaincc(2.0 / b, z)
 
 
-def _risk(
-    confidence: ArrayLike,
-    loc: ArrayLike,
-    scale: ArrayLike,
-    shape: ArrayLike,
-    horizon: Any,
-    amount: Any,
-    horizon_rule: Any,
-) -> tuple[NDArray[np.float64], NDArray[np.float64], bool]:
-    """Return (VaR, ES) arrays and whether every input was a scalar; DomainError on overflow."""
+def _risk(*args: Any) -> tuple[NDArray[np.float64], NDArray[np.float64], bool]:
+    """:func:`_risk_unchecked` (same arguments) with a DomainError where a result overflows."""
     with np.errstate(over="ignore", invalid="ignore"):
-        var, es, scalar = _risk_unchecked(
-            confidence, loc, scale, shape, horizon, amount, horizon_rule
-        )
+        var, es, scalar = _risk_unchecked(*args)
     if not (np.all(np.isfinite(var)) and np.all(np.isfinite(es))):
         raise DomainError(
             "VaR or Expected Shortfall exceeds the float range: loc, scale, horizon or "
