@@ -443,8 +443,8 @@ add(
             data_range("data", _DATA, example=_EXAMPLE_DATA),
             text(
                 "method",
-                'Estimator: "mle" (maximum likelihood, default) or "moments" (mean, STDEV.S '
-                "and KURT matched).",
+                'Estimator: "mle" (maximum likelihood, default) or "moments" (loc = MEDIAN, '
+                "scale and shape from STDEV.S and KURT).",
                 choices=("mle", "moments"),
                 default="mle",
             ),
