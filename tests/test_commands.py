@@ -208,3 +208,31 @@ def test_progress_announces_slow_steps_while_they_run(monkeypatch):
     assert lines[1].startswith("slow: done in ")
     assert len(lines) == 2  # the quick step printed nothing
     assert set(progress.timings) == {"quick", "slow"}
+
+
+def test_refresh_newest_first_file_is_reported(tmp_path, capsys):
+    src = _prices_csv(tmp_path / "p.csv")
+    lines = src.read_text().splitlines()
+    src.write_text("\n".join(lines[:1] + lines[:0:-1]) + "\n")  # header, then newest first
+    out = tmp_path / "risk.xlsx"
+    assert cli.main(["refresh", "--prices", str(src), "--out", str(out)]) == 0
+    n = len(lines) - 1
+    assert f"(rows 2-{n + 1}, newest first," in capsys.readouterr().out
+    assert CALLS[-1]["n"] == n
+
+
+def test_too_short_for_the_workbook_names_the_file(tmp_path, monkeypatch, capsys):
+    from errdist.errors import InsufficientDataError
+
+    def short(prices, out_path, **kw):
+        raise InsufficientDataError("the workbook needs at least 260 prices, got 45")
+
+    monkeypatch.setattr(sys.modules["errdist.workbook.template"], "build_workbook", short)
+    src = _prices_csv(tmp_path / "p.csv")
+    out = tmp_path / "risk.xlsx"
+    argv = ["refresh", "--prices", str(src), "--out", str(out), "--as-of", "2026-03-06"]
+    assert cli.main(argv) == 2
+    err = capsys.readouterr().err.strip()
+    assert err.count("\n") == 0
+    assert f"{src} up to --as-of 2026-03-06: the workbook needs at least 260 prices" in err
+    assert sorted(tmp_path.iterdir()) == [src]

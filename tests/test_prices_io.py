@@ -13,7 +13,7 @@ import pandas as pd
 import pytest
 
 from errdist.errors import DomainError, InputTypeError, InsufficientDataError
-from errdist.workbook.prices_io import MIN_RETURNS, read_prices
+from errdist.workbook.prices_io import MAX_AS_OF_GAP_DAYS, MIN_RETURNS, read_prices
 
 N = MIN_RETURNS + 10  # comfortably above the minimum
 
@@ -151,9 +151,96 @@ def test_bad_input_names_rows(tmp_path, mutate, cls, text):
     assert list(tmp_path.iterdir()) == [path]  # nothing written
 
 
-def test_newest_first_is_refused_with_hint(tmp_path):
-    with pytest.raises(DomainError, match="newest first"):
-        read_prices(_csv(tmp_path / "p.csv", _rows()[::-1]))
+def test_newest_first_is_read_in_reverse(tmp_path):
+    # Expected values are the file's own rows, oldest first; file rows stay the file's numbers.
+    df = read_prices(_csv(tmp_path / "p.csv", _rows()[::-1]))
+    assert list(df["date"].dt.date) == _dates()
+    assert list(df["price"]) == _prices()
+    assert df.attrs["newest_first"] and df.attrs["rows"] == (N + 1, 2)
+    cut = read_prices(_csv(tmp_path / "p.csv", _rows()[::-1]), as_of=_dates()[-2].isoformat())
+    assert cut["date"].iloc[-1] == pd.Timestamp(_dates()[-2]) and cut.attrs["rows"] == (N + 1, 3)
+    # Disorder that is not a clean reversal is still refused.
+    rows = _rows()[::-1]
+    rows[3], rows[4] = rows[4], rows[3]
+    with pytest.raises(DomainError, match="not in increasing order"):
+        read_prices(_csv(tmp_path / "q.csv", rows))
+
+
+def test_spreadsheet_csv_export_bom_crlf_trailing_blanks(tmp_path):
+    # What a spreadsheet's "CSV UTF-8" export looks like: BOM, CRLF, blank lines at the end.
+    text = "Valuation date;NAV\r\n" + "".join(
+        f"{d.isoformat()};{p:.4f}\r\n" for d, p in zip(_dates(), _prices(), strict=True)
+    )
+    path = tmp_path / "nav.csv"
+    path.write_bytes(b"\xef\xbb\xbf" + (text + "\r\n;\r\n\r\n").encode("utf-8"))
+    df = read_prices(path)
+    assert df.attrs["date_column"] == "Valuation date" and df.attrs["price_column"] == "NAV"
+    assert list(df["price"]) == _prices() and df.attrs["rows"] == (2, N + 1)
+
+
+@pytest.mark.parametrize("fmt", ["%d %b %Y", "%d-%b-%Y", "%b %d, %Y", "%d %B %Y"])
+def test_month_name_dates(tmp_path, fmt):
+    rows = [[f'"{d.strftime(fmt)}"', p] for d, p in zip(_dates(), _prices(), strict=True)]
+    df = read_prices(_csv(tmp_path / "p.csv", rows))
+    assert list(df["date"].dt.date) == _dates()
+
+
+def test_no_date_column_names_the_known_formats(tmp_path):
+    rows = [[d.strftime("%d/%m/%y"), p] for d, p in zip(_dates(), _prices(), strict=True)]
+    with pytest.raises(InputTypeError, match="no column holds dates in a known format"):
+        read_prices(_csv(tmp_path / "p.csv", rows))
+
+
+@pytest.mark.parametrize(
+    ("sep", "text", "value"),
+    [
+        (",", '"1,234.56"', 1234.56),  # quoted, as a spreadsheet writes it
+        (",", '"12,345,678"', 12345678.0),
+        (";", "1.234,56", 1234.56),
+        (";", "1 234,56", 1234.56),
+        (";", "1,234.56", 1234.56),  # both separators: the last one is the decimal
+        (";", "1,234", 1.234),  # semicolon file: a lone comma is the decimal comma
+    ],
+)
+def test_thousands_separators(tmp_path, sep, text, value):
+    rows = [[d.isoformat(), p] for d, p in zip(_dates(), _prices(), strict=True)]
+    rows[3][1] = text
+    df = read_prices(_csv(tmp_path / "p.csv", rows, sep=sep))
+    assert df["price"].iloc[3] == value and df["price"].iloc[4] == _prices()[4]
+
+
+def test_unquoted_thousands_separator_is_refused(tmp_path):
+    # 2026-01-06,1,234.56 splits into three cells; reading '1' as the price would be wrong.
+    rows = [[d.isoformat(), p] for d, p in zip(_dates(), _prices(), strict=True)]
+    rows[3][1] = "1,234.56"
+    rows[7][1] = "2,000"
+    with pytest.raises(InputTypeError, match=r"rows 5, 9: more values than the 2 column"):
+        read_prices(_csv(tmp_path / "p.csv", rows))
+
+
+def test_as_of_after_the_last_date(tmp_path):
+    path = _csv(tmp_path / "p.csv", _rows())
+    last = _dates()[-1]
+    ok = last + dt.timedelta(days=MAX_AS_OF_GAP_DAYS)  # a weekend or holiday gap
+    assert read_prices(path, as_of=ok.isoformat())["date"].iloc[-1] == pd.Timestamp(last)
+    late = last + dt.timedelta(days=MAX_AS_OF_GAP_DAYS + 1)  # the file lacks recent prices
+    with pytest.raises(InsufficientDataError, match=f"use --as-of {last.isoformat()}") as info:
+        read_prices(path, as_of=late.isoformat())
+    assert f"row {N + 1}" in str(info.value)
+
+
+def test_xlsx_from_a_spreadsheet_with_extra_columns(tmp_path):
+    openpyxl = pytest.importorskip("openpyxl", reason="openpyxl not installed")
+    wb = openpyxl.Workbook()
+    ws = wb.active
+    ws.append(["Fund", "Valuation date", "Open", "NAV", "Comment"])
+    for d, p in zip(_dates(), _prices(), strict=True):
+        ws.append(["Meridian", dt.datetime(d.year, d.month, d.day), p * 0.99, p, None])
+        ws.cell(ws.max_row, 2).number_format = "dd/mm/yyyy"
+    wb.save(tmp_path / "p.xlsx")
+    df = read_prices(tmp_path / "p.xlsx")
+    assert df.attrs["date_column"] == "Valuation date" and df.attrs["price_column"] == "NAV"
+    assert list(df["date"].dt.date) == _dates() and list(df["price"]) == _prices()
 
 
 def test_too_few_rows(tmp_path):

@@ -23,6 +23,7 @@ from contextlib import contextmanager
 from pathlib import Path
 from typing import Any, TextIO
 
+from errdist.errors import InsufficientDataError
 from errdist.workbook.atomic import atomic_path, check_target
 
 DEFAULT_DEMO_FILE = "errdist-demo.xlsx"
@@ -201,19 +202,25 @@ def run_refresh(args: argparse.Namespace) -> int:
             price_column=getattr(args, "price_column", None),
             as_of=as_of,
         )
-    result = _build(
-        prices,
-        out,
-        fund_name=fund_name_from_file(src),
-        as_of=as_of,
-        force=force,
-        progress=progress,
-    )
+    try:
+        result = _build(
+            prices,
+            out,
+            fund_name=fund_name_from_file(src),
+            as_of=as_of,
+            force=force,
+            progress=progress,
+        )
+    except InsufficientDataError as exc:
+        upto = f" up to --as-of {as_of}" if as_of else ""
+        raise InsufficientDataError(f"{src}{upto}: {exc}") from None
     first, last = prices.attrs.get("rows", (None, None))
     if first is not None:
+        order = ", newest first" if prices.attrs.get("newest_first") else ""
         print(
-            f"read {len(prices):,} prices from {src} (rows {first}-{last}, columns "
-            f"{prices.attrs.get('date_column')!r} and {prices.attrs.get('price_column')!r})"
+            f"read {len(prices):,} prices from {src} (rows {min(first, last)}-"
+            f"{max(first, last)}{order}, columns {prices.attrs.get('date_column')!r} and "
+            f"{prices.attrs.get('price_column')!r})"
         )
     print(format_summary(result.summary, out, time.perf_counter() - t0))
     return 0

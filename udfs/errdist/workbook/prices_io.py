@@ -8,7 +8,8 @@ Columns are found by parsing (or named with ``date_column`` / ``price_column``):
 
 - the date column is the first column whose non-blank values all read as dates (ISO
   ``YYYY-MM-DD`` and ``YYYY/MM/DD``, ``DD.MM.YYYY``, ``DD/MM/YYYY`` or ``MM/DD/YYYY`` when only
-  one of the two fits every row, or real date cells in a workbook);
+  one of the two fits every row, English month names as in ``30 Nov 2026``, ``30-Nov-2026``
+  or ``Nov 30, 2026``, or real date cells in a workbook);
 - the price column is the only other column whose values are mostly numbers; with several,
   the first whose header is one of ``price, adj close, adjusted close, close, nav, value``.
 
@@ -25,7 +26,14 @@ dates not in increasing order               DomainError                 #NUM!
 fewer than MIN_RETURNS + 1 prices           InsufficientDataError       #N/A
 ==========================================  ==========================  =========
 
-Fully blank rows are ignored. ``as_of`` keeps the rows up to and including that date.
+Prices may carry thousands separators: ``1,234.56`` (comma; quoted in a comma-separated
+file), ``1.234,56`` or ``1 234,56`` (decimal comma, read only in semicolon-separated files,
+where ``1,234`` is one point two three four). A CSV row with more values than the header is
+refused: an unquoted ``1,234.56`` in a comma-separated file splits into two cells.
+
+Fully blank rows are ignored. A file sorted newest first throughout is read in reverse; any
+other disorder is refused. ``as_of`` keeps the rows up to and including that date, and must
+not be more than ``MAX_AS_OF_GAP_DAYS`` after the last date (a file not yet updated).
 """
 
 from __future__ import annotations
@@ -57,7 +65,26 @@ MAX_CSV_BYTES = 50 * 1024 * 1024
 PRICE_NAMES = ("price", "adj close", "adj_close", "adjusted close", "close", "nav", "value")
 """Header names preferred for the price column when several columns hold numbers."""
 
-_DATE_FORMATS = ("%Y-%m-%d", "%Y/%m/%d", "%d.%m.%Y", "%d/%m/%Y", "%m/%d/%Y", "%d-%m-%Y")
+MAX_AS_OF_GAP_DAYS = 10
+"""Most calendar days ``as_of`` may fall after the file's last date: weekends and holiday
+closures leave gaps of a few days (common practice, no source); a longer gap means the file
+lacks the latest prices."""
+
+_DATE_FORMATS = (
+    "%Y-%m-%d",
+    "%Y/%m/%d",
+    "%d.%m.%Y",
+    "%d/%m/%Y",
+    "%m/%d/%Y",
+    "%d-%m-%Y",
+    "%d %b %Y",
+    "%d %B %Y",
+    "%d-%b-%Y",
+    "%b %d, %Y",
+    "%B %d, %Y",
+)
+_DATE_EXAMPLES = "2026-11-30, 30.11.2026, 30/11/2026 or 30 Nov 2026"
+_COMMA_THOUSANDS = re.compile(r"[-+]?\d{1,3}(,\d{3})+(\.\d+)?")
 _ISO_WITH_TIME = re.compile(r"^\d{4}-\d{2}-\d{2}[ T]\d{2}:\d{2}(:\d{2}(\.\d+)?)?$")
 
 
@@ -117,6 +144,13 @@ def _read_csv(path: Path) -> _Table:
         rows.append((line, [c.strip() for c in cells]))
     if header is None:
         raise InputTypeError(f"{path}: the file is empty")
+    wide = [r for r, cells in rows if any(not _blank(c) for c in cells[len(header) :])]
+    if wide:
+        hint = '; a number with a thousands separator must be in quotes ("1,234.56")'
+        raise InputTypeError(
+            f"{path}: {_rows_text(wide)}: more values than the {len(header)} column headers"
+            + (hint if delimiter == "," else "")
+        )
     return _Table(header, rows, decimal_comma=delimiter == ";")
 
 
@@ -159,6 +193,8 @@ def _parse_number(v: Any, decimal_comma: bool) -> float | None:
         s = v.strip().replace("\u00a0", "").replace(" ", "")
         if decimal_comma and re.fullmatch(r"[-+]?[\d.]*,\d+", s):
             s = s.replace(".", "").replace(",", ".")
+        elif _COMMA_THOUSANDS.fullmatch(s) and not (decimal_comma and "." not in s):
+            s = s.replace(",", "")
         try:
             return float(s)
         except ValueError:
@@ -246,7 +282,7 @@ def _detect_date_column(table: _Table) -> int:
         if vals and sum(_is_date_value(v) for v in vals) >= 0.5 * len(vals):
             return i
     raise InputTypeError(
-        "no column holds dates; name it with --date-column "
+        f"no column holds dates in a known format ({_DATE_EXAMPLES}); name it with --date-column "
         f"(columns: {', '.join(repr(h) for h in table.header if h)})"
     )
 
@@ -313,13 +349,14 @@ def read_prices(
     date_column, price_column : str, optional
         Header names of the columns (case-insensitive); detected when omitted.
     as_of : str or date, optional
-        Last date to use (``YYYY-MM-DD``); later rows are ignored. Default: the last row.
+        Last date to use (``YYYY-MM-DD``); later rows are ignored. Default: the last date.
 
     Returns
     -------
     pandas.DataFrame
         Columns ``date`` (``datetime64``) and ``price`` (float), oldest first. ``attrs`` holds
-        ``source``, ``date_column``, ``price_column`` and ``rows`` (first and last file row).
+        ``source``, ``date_column``, ``price_column``, ``rows`` (file rows of the oldest and
+        newest price used) and ``newest_first`` (the file was sorted newest first).
 
     Raises
     ------
@@ -328,7 +365,8 @@ def read_prices(
     DomainError
         Prices <= 0, repeated dates, dates out of order (naming the rows).
     InsufficientDataError
-        Fewer than ``MIN_RETURNS + 1`` prices (after ``as_of``).
+        Fewer than ``MIN_RETURNS + 1`` prices (after ``as_of``); ``as_of`` before the first
+        date or more than ``MAX_AS_OF_GAP_DAYS`` after the last.
     FileNotFoundError
         No such file.
     """
@@ -381,7 +419,7 @@ def read_prices(
         shown = raw_dates[row_numbers.index(bad[0])]
         raise InputTypeError(
             f"{p}: {_rows_text(bad)}: not a date in column {table.header[dcol]!r} "
-            f"(e.g. {shown!r}); use YYYY-MM-DD"
+            f"(e.g. {shown!r}); use YYYY-MM-DD, one format for the whole column"
         )
 
     blank_prices = [r for r, v in zip(row_numbers, raw_prices, strict=True) if _blank(v)]
@@ -426,19 +464,22 @@ def read_prices(
             f"{p}: {_rows_text(rows)}: the same date appears twice "
             f"(rows {first[0]} and {first[1]}: {first[2].isoformat()}); keep one price per date"
         )
+    newest_first = len(dates) > 1 and all(
+        dates[i] < dates[i - 1]  # type: ignore[operator]
+        for i in range(1, len(dates))
+    )
+    if newest_first:
+        dates, prices, row_numbers = dates[::-1], prices[::-1], row_numbers[::-1]
     out_of_order = [
         (row_numbers[i - 1], row_numbers[i])
         for i in range(1, len(dates))
         if dates[i] < dates[i - 1]  # type: ignore[operator]
     ]
     if out_of_order:
-        hint = ""
-        if len(out_of_order) == len(dates) - 1:
-            hint = " (the file is sorted newest first)"
         a, b = out_of_order[0]
         raise DomainError(
             f"{p}: {_rows_text([y for _, y in out_of_order])}: dates are not in increasing "
-            f"order{hint}, e.g. row {b} ({dates[row_numbers.index(b)]}) comes after row {a} "
+            f"order, e.g. row {b} ({dates[row_numbers.index(b)]}) comes after row {a} "
             f"({dates[row_numbers.index(a)]}); sort the file by date, oldest first"
         )
 
@@ -450,6 +491,13 @@ def read_prices(
             raise InsufficientDataError(
                 f"{p}: --as-of {cutoff.isoformat()} is before the first date "
                 f"{dates[0].isoformat()} (row {row_numbers[0]})"  # type: ignore[union-attr]
+            )
+        gap = (cutoff - dates[-1]).days  # type: ignore[operator]
+        if gap > MAX_AS_OF_GAP_DAYS:
+            last = dates[-1].isoformat()  # type: ignore[union-attr]
+            raise InsufficientDataError(
+                f"{p}: --as-of {cutoff.isoformat()} is {gap} days after the last date {last} "
+                f"(row {row_numbers[-1]}); add the missing prices, or use --as-of {last}"
             )
     if keep < MIN_RETURNS + 1:
         upto = f" up to {cutoff.isoformat()}" if cutoff is not None else ""
@@ -470,5 +518,6 @@ def read_prices(
         date_column=table.header[dcol],
         price_column=table.header[pcol],
         rows=(row_numbers[0], row_numbers[keep - 1]),
+        newest_first=newest_first,
     )
     return df
