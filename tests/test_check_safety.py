@@ -75,6 +75,13 @@ def test_not_a_zip_refused(tmp_path):
         check_workbook(p)
 
 
+def test_empty_file_refused_as_empty(tmp_path):
+    p = tmp_path / "book.xlsx"
+    p.write_bytes(b"")
+    with pytest.raises(safety.UnsafeFileError, match=r"the file is empty \(0 bytes\)"):
+        check_workbook(p)
+
+
 def test_external_link_part_refused(tmp_path):
     link = (
         b'<?xml version="1.0" encoding="UTF-8" standalone="yes"?>'

@@ -178,6 +178,18 @@ def test_spreadsheet_csv_export_bom_crlf_trailing_blanks(tmp_path):
     assert list(df["price"]) == _prices() and df.attrs["rows"] == (2, N + 1)
 
 
+def test_spreadsheet_sep_line_is_skipped(tmp_path):
+    # A first line "sep=;" tells a spreadsheet the delimiter; the header is the next line.
+    path = tmp_path / "p.csv"
+    body = "".join(
+        f"{d.isoformat()};{p:.4f}\n".replace(".", ",")
+        for d, p in zip(_dates(), _prices(), strict=True)
+    )
+    path.write_text("sep=;\nDate;Price\n" + body, encoding="utf-8")
+    df = read_prices(path)
+    assert list(df["price"]) == _prices() and df.attrs["rows"] == (3, N + 2)
+
+
 @pytest.mark.parametrize("fmt", ["%d %b %Y", "%d-%b-%Y", "%b %d, %Y", "%d %B %Y"])
 def test_month_name_dates(tmp_path, fmt):
     rows = [[f'"{d.strftime(fmt)}"', p] for d, p in zip(_dates(), _prices(), strict=True)]

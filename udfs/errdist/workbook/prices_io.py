@@ -125,12 +125,21 @@ def _read_csv(path: Path) -> _Table:
     if "\x00" in text:
         raise InputTypeError(f"{path}: not a text (CSV) file")
     first = next((ln for ln in text.splitlines() if ln.strip()), "")
-    counts = {d: first.count(d) for d in (",", ";", "\t")}
-    delimiter = max(counts, key=lambda d: counts[d]) if any(counts.values()) else ","
+    sep_line = re.fullmatch(r"\s*sep=(.)\s*", first)  # a spreadsheet's delimiter hint line
+    if sep_line:
+        delimiter = sep_line.group(1)
+    else:
+        counts = {d: first.count(d) for d in (",", ";", "\t")}
+        delimiter = max(counts, key=lambda d: counts[d]) if any(counts.values()) else ","
     reader = csv.reader(io.StringIO(text, newline=""), delimiter=delimiter)
     header: list[str] | None = None
     rows: list[tuple[int, list[Any]]] = []
     start = 1
+    if sep_line:
+        for cells in reader:  # skip up to and including the hint line
+            start = reader.line_num + 1
+            if not all(_blank(c) for c in cells):
+                break
     for cells in reader:
         line = start
         start = reader.line_num + 1

@@ -178,6 +178,8 @@ def inspect_xlsx(
         XML part with a DTD/entity declaration.
     """
     p = check_file_size(path, limit=max_file_bytes)
+    if p.stat().st_size == 0:
+        raise UnsafeFileError(f"{p}: the file is empty (0 bytes), not an .xlsx workbook")
     if not zipfile.is_zipfile(p):
         raise UnsafeFileError(
             f"{p}: not an .xlsx workbook (not a zip archive); save it as Excel Workbook (.xlsx)"
