@@ -199,16 +199,20 @@ def _shape_given_loc(lg: np.ndarray, n: int, b0: float, ws: _Workspace) -> float
                 return SHAPE_MIN
         guu = -c * inv - _trigamma(inv) * inv * inv + inv + r1 - b * var
         un = u - gu / guu if guu < 0.0 else math.nan
-        if not (u_lo < un < u_hi):
+        newton = u_lo < un < u_hi
+        if not newton:
             if not (un < u_hi) and not hi_tested:
                 un = _U_MAX
             elif not (un > u_lo) and not lo_tested:
                 un = _U_MIN
             else:
                 un = 0.5 * (u_lo + u_hi)
-        if abs(un - u) <= 1e-7 and u_lo < un < u_hi and guu < 0.0:
-            # Newton converges quadratically: the error after this step is O(1e-14)
+        if newton and abs(un - u) <= 1e-7:
+            # a Newton step (not a bisection midpoint) this short: Newton converges
+            # quadratically, so the error after it is O(1e-14)
             return math.exp(un)
+        if u_hi - u_lo <= 4e-16 * max(1.0, abs(u)):
+            return math.exp(un)  # bracket at the float resolution
         u = un
     return math.exp(u)
 

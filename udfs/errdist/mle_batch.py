@@ -294,7 +294,8 @@ def _shape_given_loc(lg: FloatArray, b0: FloatArray) -> tuple[FloatArray, NDArra
         un = np.where(
             inside, un, np.where(to_max, _U_MAX, np.where(to_min, _U_MIN, 0.5 * (lo + hi)))
         )
-        conv = ~at_bound & (np.abs(un - ua) <= 1e-7) & (lo < un) & (un < hi) & (guu < 0.0)
+        # only a short Newton step (not a bisection midpoint) settles a row, as in mle.py
+        conv = ~at_bound & inside & (np.abs(un - ua) <= 1e-7)
         out[act[conv]] = np.exp(un[conv])
         ok[act[conv]] = True
         u[act] = un
