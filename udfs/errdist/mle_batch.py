@@ -303,6 +303,63 @@ def _shape_given_loc(lg: FloatArray, b0: FloatArray) -> tuple[FloatArray, NDArra
     return out, ok
 
 
+def _root_step(
+    act: NDArray[np.int64],
+    ma: FloatArray,
+    t: FloatArray,
+    uu: FloatArray,
+    bm1: FloatArray,
+    m: FloatArray,
+    lo: FloatArray,
+    hi: FloatArray,
+    t_lo: FloatArray,
+    t_hi: FloatArray,
+    side: NDArray[np.int64],
+    last: FloatArray,
+    ok: NDArray[np.bool_],
+    tol: FloatArray,
+) -> NDArray[np.int64]:
+    """One safeguarded Newton step on T(m) = Σ sign(x−m)|x−m|^(b−1) for the active rows.
+
+    ``t`` = T(ma) and ``uu`` = Σ|x−ma|^(b−2) of the active rows ``act``. Updates the bracket
+    [lo, hi] with T's values at its ends (halved on the stale side: Illinois false position),
+    takes the Newton step when it stays inside the bracket and shrinks by half at least,
+    otherwise false position (bisection when that stalls or one end is still open), and
+    writes m, last and ok in place. Returns the rows still active.
+    """
+    zero = t == 0.0
+    ok[act[zero]] = True
+    pos = t > 0.0
+    neg = ~pos & ~zero
+    ia = act[pos]
+    lo[ia], t_lo[ia] = ma[pos], t[pos]
+    ill = ia[side[ia] > 0]
+    t_hi[ill] *= 0.5
+    side[ia] = 1
+    ib = act[neg]
+    hi[ib], t_hi[ib] = ma[neg], t[neg]
+    ill = ib[side[ib] < 0]
+    t_lo[ill] *= 0.5
+    side[ib] = -1
+    la, ha, tla, tha = lo[act], hi[act], t_lo[act], t_hi[act]
+    with np.errstate(all="ignore"):
+        mn = np.where(uu > 0.0, ma + t / (bm1[act] * uu), np.nan)
+        bad = ~((la < mn) & (mn < ha)) | (np.abs(mn - ma) > 0.5 * last[act])
+        both = np.isfinite(tla) & np.isfinite(tha)
+        mf = la + (ha - la) * tla / (tla - tha)
+    mid = 0.5 * (la + ha)
+    mf = np.where((la < mf) & (mf < ha), mf, mid)
+    mf = np.where(~((la < mf) & (mf < ha)) | (np.abs(mf - ma) < 1e-3 * (ha - la)), mid, mf)
+    out_br = ~((la < mn) & (mn < ha))
+    mn = np.where(bad & both, mf, np.where(bad & out_br, mid, mn))
+    step = np.abs(mn - ma)
+    m[act[~zero]] = mn[~zero]
+    conv = ~zero & ((step <= tol[act]) | (ha - la <= tol[act]))
+    ok[act[conv]] = True
+    last[act] = step
+    return act[~zero & ~conv]
+
+
 def _loc_smooth(
     xs: FloatArray, b: FloatArray, m0: FloatArray, tol: FloatArray
 ) -> tuple[FloatArray, NDArray[np.bool_]]:
@@ -334,37 +391,7 @@ def _loc_smooth(
         t = np.copysign(q, d).sum(axis=1)
         np.divide(q, ad, out=q, where=ad > 0.0)
         uu = q.sum(axis=1)
-        zero = t == 0.0
-        ok[act[zero]] = True
-        pos = t > 0.0
-        neg = ~pos & ~zero
-        ia = act[pos]
-        lo[ia], t_lo[ia] = ma[pos], t[pos]
-        ill = ia[side[ia] > 0]
-        t_hi[ill] *= 0.5
-        side[ia] = 1
-        ib = act[neg]
-        hi[ib], t_hi[ib] = ma[neg], t[neg]
-        ill = ib[side[ib] < 0]
-        t_lo[ill] *= 0.5
-        side[ib] = -1
-        la, ha, tla, tha = lo[act], hi[act], t_lo[act], t_hi[act]
-        with np.errstate(all="ignore"):
-            mn = np.where(uu > 0.0, ma + t / (bm1[act] * uu), np.nan)
-            bad = ~((la < mn) & (mn < ha)) | (np.abs(mn - ma) > 0.5 * last[act])
-            both = np.isfinite(tla) & np.isfinite(tha)
-            mf = la + (ha - la) * tla / (tla - tha)
-        mid = 0.5 * (la + ha)
-        mf = np.where((la < mf) & (mf < ha), mf, mid)
-        mf = np.where(~((la < mf) & (mf < ha)) | (np.abs(mf - ma) < 1e-3 * (ha - la)), mid, mf)
-        out_br = ~((la < mn) & (mn < ha))
-        mn = np.where(bad & both, mf, np.where(bad & out_br, mid, mn))
-        step = np.abs(mn - ma)
-        m[act[~zero]] = mn[~zero]
-        conv = ~zero & ((step <= tol[act]) | (ha - la <= tol[act]))
-        ok[act[conv]] = True
-        last[act] = step
-        act = act[~zero & ~conv]
+        act = _root_step(act, ma, t, uu, bm1, m, lo, hi, t_lo, t_hi, side, last, ok, tol)
     return m, ok
 
 
@@ -609,35 +636,7 @@ def _loc_smooth_local(
         ad = np.abs(d)
         np.divide(q, ad, out=q, where=ad > 0.0)
         uu = q.sum(axis=1) - fd / bm1[act]  # Σ|d|^(b−2) = −T′/(b−1)
-        zero = t == 0.0
-        ok[act[zero]] = True
-        pos = t > 0.0
-        neg = ~pos & ~zero
-        ia = act[pos]
-        lo[ia], t_lo[ia] = ma[pos], t[pos]
-        ill = ia[side[ia] > 0]
-        t_hi[ill] *= 0.5
-        side[ia] = 1
-        ib = act[neg]
-        hi[ib], t_hi[ib] = ma[neg], t[neg]
-        ill = ib[side[ib] < 0]
-        t_lo[ill] *= 0.5
-        side[ib] = -1
-        la, ha, tla, tha = lo[act], hi[act], t_lo[act], t_hi[act]
-        with np.errstate(all="ignore"):
-            mn = np.where(uu > 0.0, ma + t / (bm1[act] * uu), np.nan)
-            bad = ~((la < mn) & (mn < ha)) | (np.abs(mn - ma) > 0.5 * last[act])
-            mf = la + (ha - la) * tla / (tla - tha)
-        mid = 0.5 * (la + ha)
-        mf = np.where((la < mf) & (mf < ha), mf, mid)
-        mf = np.where(~((la < mf) & (mf < ha)) | (np.abs(mf - ma) < 1e-3 * (ha - la)), mid, mf)
-        mn = np.where(bad, mf, mn)  # the bracket is always two-sided here
-        stp = np.abs(mn - ma)
-        m[act[~zero]] = mn[~zero]
-        conv = ~zero & ((stp <= tol[act]) | (ha - la <= tol[act]))
-        ok[act[conv]] = True
-        last[act] = stp
-        act = act[~zero & ~conv]
+        act = _root_step(act, ma, t, uu, bm1, m, lo, hi, t_lo, t_hi, side, last, ok, tol)
     return m, ok
 
 
