@@ -195,7 +195,7 @@ def _table_rows(df: pd.DataFrame, header: bool) -> list[list[Any]]:
 
 
 def _core_returns(book: Book, f: Formula, args: list[Any]) -> list[list[Any]]:
-    from errdist.returns import returns_from_prices
+    from errdist.data.returns import returns_from_prices
 
     kind = args[1] if len(args) > 1 and args[1] is not None else "log"
     r = returns_from_prices(numeric(args[0]).ravel(), kind=kind)
@@ -254,7 +254,7 @@ def _scalar(fn: Callable[..., Any]) -> Callable[[Book, Formula, list[Any]], list
 
 
 def _core_pdf(book: Book, f: Formula, args: list[Any]) -> list[list[Any]]:
-    from errdist.distribution import pdf
+    from errdist.law.symmetric import pdf
 
     x = numeric(args[0]) if isinstance(args[0], np.ndarray) else np.array([[float(args[0])]])
     return pdf(x, float(args[1]), float(args[2]), float(args[3])).tolist()
@@ -292,14 +292,14 @@ def _core_risk(which: str) -> Callable[[Book, Formula, list[Any]], list[list[Any
 
 
 def _core_empirical(book: Book, f: Formula, args: list[Any]) -> list[list[Any]]:
-    from errdist.empirical import empirical_points
+    from errdist.checks.empirical import empirical_points
 
     df = empirical_points(numeric(args[0]).ravel(), float(args[1]), float(args[2]), float(args[3]))
     return _table_rows(df, bool(_opt(args, 4, False)))
 
 
 def _core_compare(book: Book, f: Formula, args: list[Any]) -> list[list[Any]]:
-    from errdist.rivals import compare
+    from errdist.checks.rivals import compare
 
     df = compare(numeric(args[0]).ravel())
     return _table_rows(df, bool(_opt(args, 1, False)))
@@ -315,7 +315,7 @@ def _core_version(book: Book, f: Formula, args: list[Any]) -> list[list[Any]]:
 
 
 def _core_gof(book: Book, f: Formula, args: list[Any]) -> list[list[Any]]:
-    from errdist.goodness import goodness_of_fit
+    from errdist.checks.goodness import goodness_of_fit
 
     def num(v: Any) -> float | None:
         return None if v is None else float(v)
@@ -343,7 +343,7 @@ def _core_gof(book: Book, f: Formula, args: list[Any]) -> list[list[Any]]:
 
 
 def _core_backtest(book: Book, f: Formula, args: list[Any]) -> list[list[Any]]:
-    from errdist.backtest import backtest
+    from errdist.checks.backtest import backtest
 
     res = backtest(numeric(args[0]).ravel(), numeric(args[1]).ravel(), float(args[2]))
     rows: list[list[Any]] = [["measure", "value"]] if _opt(args, 3, False) else []
@@ -358,7 +358,7 @@ def _core_backtest(book: Book, f: Formula, args: list[Any]) -> list[list[Any]]:
 
 
 def _core_rolling(book: Book, f: Formula, args: list[Any]) -> list[list[Any]]:
-    from errdist.backtest import rolling_var
+    from errdist.checks.rolling import rolling_var
 
     out = rolling_var(numeric(args[0]).ravel(), int(args[1]), float(args[2]), _opt(args, 3, "mle"))
     return [[v] for v in out]

@@ -23,7 +23,7 @@ import numpy as np
 import pytest
 from scipy import stats
 
-from errdist.backtest import backtest, christoffersen, kupiec, traffic_light
+from errdist.checks.backtest import backtest, christoffersen, kupiec, traffic_light
 from errdist.errors import DomainError, InputTypeError, InsufficientDataError
 
 

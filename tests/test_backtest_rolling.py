@@ -12,7 +12,8 @@ import numpy as np
 import pytest
 from scipy import stats
 
-from errdist.backtest import backtest, rolling_var
+from errdist.checks.backtest import backtest
+from errdist.checks.rolling import rolling_var
 from errdist.errors import DomainError, InputTypeError, InsufficientDataError
 from errdist.estimate import fit
 from errdist.risk import value_at_risk

@@ -10,9 +10,9 @@ import pytest
 xlsxwriter = pytest.importorskip("xlsxwriter", reason="XlsxWriter not installed")
 pytest.importorskip("formulas", reason="formulas not installed")
 
+from errdist.data.prices_io import read_prices  # noqa: E402
 from errdist.workbook import engine, safety  # noqa: E402
 from errdist.workbook.check import check_workbook  # noqa: E402
-from errdist.workbook.prices_io import read_prices  # noqa: E402
 
 
 def _plain_book(path: Path) -> Path:

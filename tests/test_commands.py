@@ -22,7 +22,7 @@ pytest.importorskip("formulas", reason="formulas not installed")
 
 import errdist.workbook  # noqa: E402
 from errdist import cli  # noqa: E402
-from errdist.workbook.prices_io import MIN_RETURNS  # noqa: E402
+from errdist.data.prices_io import MIN_RETURNS  # noqa: E402
 
 CALLS: list[dict] = []
 
@@ -161,7 +161,7 @@ def test_demo_default_file_in_cwd(tmp_path, monkeypatch, capsys):
     assert cli.main(["demo"]) == 0
     assert (tmp_path / "errdist-demo.xlsx").exists()
     out = capsys.readouterr().out
-    from errdist.demo_data import FUND_NAME
+    from errdist.data.demo import FUND_NAME
 
     assert FUND_NAME in out and "1-day 99%" in out and "MLE" in out
     assert cli.main(["demo"]) == 2  # never over an existing file without --force

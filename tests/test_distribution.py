@@ -1,4 +1,4 @@
-"""Reference tests for errdist.distribution.
+"""Reference tests for errdist.law.symmetric.
 
 Every numerical check names its outside source: scipy.stats (gennorm, norm, laplace), mpmath at
 40 significant digits, or Nadarajah, S. (2005) "A generalized normal distribution",
@@ -16,7 +16,7 @@ from scipy import special as sc
 from scipy import stats
 
 import errdist
-from errdist import distribution as D
+import errdist.law as D
 from errdist.errors import DomainError, InputTypeError
 
 mp.mp.dps = 40

@@ -1,4 +1,4 @@
-"""Property tests (hypothesis) for errdist.distribution.
+"""Property tests (hypothesis) for errdist.law.symmetric.
 
 Properties of any continuous distribution function (common practice, no source): F + S = 1,
 F non-decreasing, quantile(F(x)) = x where F is not flat in double precision, and the symmetry
@@ -15,7 +15,7 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 from scipy import stats
 
-from errdist import distribution as D
+import errdist.law as D
 
 shapes = st.floats(min_value=0.3, max_value=10.0)
 locs = st.floats(min_value=-1e3, max_value=1e3)

@@ -6,7 +6,7 @@ import numpy as np
 import pytest
 from scipy import stats
 
-from errdist.empirical import EMPIRICAL_COLUMNS, empirical_points, plotting_positions
+from errdist.checks.empirical import EMPIRICAL_COLUMNS, empirical_points, plotting_positions
 from errdist.errors import DomainError, InputTypeError, InsufficientDataError
 
 

@@ -8,15 +8,15 @@ import numpy as np
 import pytest
 from scipy import stats
 
-from errdist.errors import DomainError, InputTypeError, InsufficientDataError
-from errdist.estimate import fit
-from errdist.goodness import (
+from errdist.checks.goodness import (
     anderson_darling,
     cramer_von_mises,
     edf_statistic,
     goodness_of_fit,
     kolmogorov_smirnov,
 )
+from errdist.errors import DomainError, InputTypeError, InsufficientDataError
+from errdist.estimate import fit
 
 SQRT2 = math.sqrt(2.0)
 
@@ -196,7 +196,7 @@ def test_fixed_law_rejection_rate_is_nominal() -> None:
     # Data from the law itself, law fully specified: P(p <= 0.05) = 0.05 (the Monte-Carlo
     # p-value is exact-level, Davison & Hinkley 1997). 400 data sets: binomial SE
     # sqrt(0.05·0.95/400) = 0.0109; allow ±3 SE.
-    from errdist.distribution import rvs
+    from errdist.law.symmetric import rvs
 
     rng = np.random.default_rng(31)
     data = rvs((400, 60), 0.0, 1.0, 1.3, seed=rng)
@@ -212,7 +212,7 @@ def test_refit_rejection_rate_is_nominal_and_naive_tables_are_not() -> None:
     # 200 data sets sqrt(0.05·0.95/200) = 0.0154; allow ±3 SE), while treating the fitted
     # law as known (no refit — what a fixed-law table does) rejects far less often, the effect
     # described by Stephens (1974).
-    from errdist.distribution import rvs
+    from errdist.law.symmetric import rvs
 
     rng = np.random.default_rng(41)
     n_sets = 200
@@ -279,7 +279,7 @@ def test_bootstrap_fast_path_matches_scipy(statistic: str) -> None:
     # The bootstrap's one-evaluation tail path must give scipy's statistic (reference:
     # scipy.stats.goodness_of_fit with gennorm, all parameters known), including a row with
     # an observation so far out that its tail probability underflows.
-    from errdist.goodness import _bootstrap_statistic
+    from errdist.checks.goodness import _bootstrap_statistic
 
     rng = np.random.default_rng(17)
     x = np.sort(rng.standard_t(5, size=(4, 90)), axis=1)
@@ -318,12 +318,12 @@ def test_overflowing_law_is_a_domain_error() -> None:
 def test_batched_refits_give_the_same_pvalue_as_one_by_one(
     monkeypatch, shape: float, n: int
 ) -> None:
-    # The bootstrap refits all simulated rows at once (errdist.mle_batch); with the same seed
+    # The bootstrap refits all simulated rows at once (errdist.estimate.mle_batch); with the same seed
     # its p-value must equal that of refitting row by row with the one-sample exact MLE
-    # (errdist.mle._mle_sorted, checked against scipy in tests/test_mle.py): the refits agree
+    # (errdist.estimate.mle._mle_sorted, checked against scipy in tests/test_mle.py): the refits agree
     # to rounding, so every simulated statistic lands on the same side of the observed one.
-    import errdist.goodness as gof
-    from errdist.mle import _mle_sorted
+    import errdist.checks.goodness as gof
+    from errdist.estimate.mle import _mle_sorted
 
     def one_by_one(sim: np.ndarray, hint: float):
         out = np.array([_mle_sorted(r, hint)[:3] for r in sim])
@@ -344,7 +344,7 @@ def test_lower_gamma_series_matches_mpmath_and_scipy(shape: float) -> None:
     mpmath = pytest.importorskip("mpmath", reason="mpmath not installed")
     from scipy import special
 
-    from errdist.goodness import _lower_gamma_series
+    from errdist.checks.goodness import _lower_gamma_series
 
     rng = np.random.default_rng(8)
     d = np.abs(rng.standard_normal((2, 400)) * 3.0)

@@ -1,8 +1,8 @@
-"""Batched exact MLE (errdist.mle_batch) checked row by row against scipy and the one-row fit.
+"""Batched exact MLE (errdist.estimate.mle_batch) checked row by row against scipy and the one-row fit.
 
 The batched search must return, on every row, the maximum-likelihood estimate: its
 log-likelihood (recomputed with scipy.stats.gennorm.logpdf, the reference) may not be below
-that of the one-row exact fit errdist.mle._mle_sorted (itself checked against scipy's generic
+that of the one-row exact fit errdist.estimate.mle._mle_sorted (itself checked against scipy's generic
 fit, a brute-force grid and an exhaustive search in tests/test_mle.py) by more than 1e-9.
 """
 
@@ -12,9 +12,9 @@ import numpy as np
 import pytest
 from scipy import stats
 
-from errdist import mle_batch
-from errdist.mle import SHAPE_MAX, SHAPE_MIN, _mle_sorted
-from errdist.mle_batch import mle_sorted_rows
+from errdist.estimate import mle_batch
+from errdist.estimate.mle import SHAPE_MAX, SHAPE_MIN, _mle_sorted
+from errdist.estimate.mle_batch import mle_sorted_rows
 
 SHAPES = [0.3, 0.7, 0.95, 1.0, 1.05, 1.5, 2.0, 5.0]
 

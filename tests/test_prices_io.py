@@ -12,8 +12,8 @@ import numpy as np
 import pandas as pd
 import pytest
 
+from errdist.data.prices_io import MAX_AS_OF_GAP_DAYS, MIN_RETURNS, read_prices
 from errdist.errors import DomainError, InputTypeError, InsufficientDataError
-from errdist.workbook.prices_io import MAX_AS_OF_GAP_DAYS, MIN_RETURNS, read_prices
 
 N = MIN_RETURNS + 10  # comfortably above the minimum
 

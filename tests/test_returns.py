@@ -1,4 +1,4 @@
-"""errdist.returns.returns_from_prices against numpy/pandas computations of the textbook formulas.
+"""errdist.data.returns.returns_from_prices against numpy/pandas computations of the textbook formulas.
 
 Log return ln(p_t / p_{t-1}), simple return p_t / p_{t-1} - 1 (Campbell, Lo & MacKinlay 1997,
 The Econometrics of Financial Markets, section 1.4).

@@ -16,7 +16,7 @@ import pytest
 from scipy import stats
 
 import sheet_harness as h
-from errdist.backtest import rolling_var
+from errdist.checks.rolling import rolling_var
 from errdist.sheet.catalog import evaluate
 
 

@@ -10,8 +10,7 @@ import pandas as pd
 import pytest
 from scipy import stats
 
-from errdist.errors import InputTypeError, InsufficientDataError
-from errdist.rivals import (
+from errdist.checks.rivals import (
     COLUMNS,
     compare,
     fit_cauchy,
@@ -19,6 +18,7 @@ from errdist.rivals import (
     fit_normal,
     fit_student_t,
 )
+from errdist.errors import InputTypeError, InsufficientDataError
 
 
 def _nasdaq_returns() -> np.ndarray:

@@ -20,7 +20,7 @@ import scipy.stats as st
 
 import errdist
 import sheet_harness as h
-from errdist import distribution
+from errdist.law import symmetric as distribution
 
 X = [-3.0, -0.7, 0.0, 0.4, 2.5]
 PARAMS = [(0.0, 1.0, 2.0), (0.01, 0.02, 1.0), (-1.0, 2.5, 0.6), (0.5, 0.3, 7.0)]

@@ -24,7 +24,7 @@ pytest.importorskip("formulas", reason="the headless extra (formulas) is not ins
 pytest.importorskip("xlsxwriter", reason="XlsxWriter is not installed")
 pytest.importorskip("openpyxl", reason="openpyxl is not installed")
 
-from errdist.demo_data import FUND_NAME, simulate_prices  # noqa: E402
+from errdist.data.demo import FUND_NAME, simulate_prices  # noqa: E402
 from errdist.workbook import template  # noqa: E402
 from errdist.workbook.layout import Plan  # noqa: E402
 from errdist.workbook.writer import write_plan  # noqa: E402

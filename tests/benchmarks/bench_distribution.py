@@ -1,4 +1,4 @@
-"""Benchmark: errdist.distribution against scipy.stats.gennorm, measured side by side.
+"""Benchmark: errdist.law.symmetric against scipy.stats.gennorm, measured side by side.
 
 Run: ``python tests/benchmarks/bench_distribution.py [--repeat N]``.
 Prints best-of-N timings and the ratio ours / scipy for each case. Targets (docs/performance.md,
@@ -16,7 +16,7 @@ import numpy as np
 import scipy
 from scipy import stats
 
-from errdist import distribution as D
+import errdist.law as D
 
 
 def best(stmt, number: int, repeat: int) -> float:  # type: ignore[no-untyped-def]

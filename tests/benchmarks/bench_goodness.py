@@ -21,7 +21,7 @@ import time
 import numpy as np
 from scipy import stats
 
-from errdist.goodness import goodness_of_fit
+from errdist.checks.goodness import goodness_of_fit
 
 SAMPLES = 999
 SCIPY_SAMPLES = 49
@@ -71,10 +71,10 @@ def main() -> int:
     print(f"  ratio errdist / scipy = {t_ours / t_sp:.4f}  (target <= 0.05)")
 
     # where errdist's time goes: simulation, refits, statistics (best of 3 each)
-    from errdist import mle_batch
-    from errdist.distribution import rvs
-    from errdist.goodness import _bootstrap_statistic, _refit_rows
-    from errdist.mle import _mle_sorted
+    from errdist.checks.goodness import _bootstrap_statistic, _refit_rows
+    from errdist.estimate import mle_batch
+    from errdist.estimate.mle import _mle_sorted
+    from errdist.law.symmetric import rvs
 
     sim = np.sort(rvs((SAMPLES, x.size), res.loc, res.scale, res.shape, seed=3), axis=1)
     t_sim = _best(

@@ -1,6 +1,6 @@
 """Benchmark: ``errdist refresh`` on long price histories, and where the time goes.
 
-For 5,000 and 20,000 daily prices (simulated with ``errdist.demo_data.simulate_returns``, the
+For 5,000 and 20,000 daily prices (simulated with ``errdist.data.demo.simulate_returns``, the
 invented demo scenario) it times each step of a refresh — read the CSV, lay out the workbook,
 evaluate it headlessly (split into the engine's load / compile / calculate), write the final
 file — and prints ratios against two references measured side by side in the same run:
@@ -24,7 +24,7 @@ import pandas as pd
 
 
 def _prices_csv(folder: Path, n: int) -> Path:
-    from errdist.demo_data import simulate_returns
+    from errdist.data.demo import simulate_returns
 
     returns, _ = simulate_returns(n - 1, seed=20261202 + n)
     prices = 100.0 * np.exp(np.concatenate([[0.0], np.cumsum(returns)]))
@@ -39,9 +39,9 @@ def _prices_csv(folder: Path, n: int) -> Path:
 def bench(n: int) -> dict[str, float]:
     from openpyxl import load_workbook
 
+    from errdist.data.prices_io import read_prices
     from errdist.workbook import engine, template
     from errdist.workbook.atomic import atomic_path
-    from errdist.workbook.prices_io import read_prices
 
     out: dict[str, float] = {}
     with tempfile.TemporaryDirectory() as tmp:

@@ -19,9 +19,9 @@ import time
 import numpy as np
 from scipy import stats
 
-from errdist.backtest import rolling_var
-from errdist.horizon import _laws
+from errdist.checks.rolling import rolling_var
 from errdist.risk import value_at_risk
+from errdist.risk.horizon import _laws
 
 WINDOW = 250
 FITS = 1000

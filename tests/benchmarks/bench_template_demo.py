@@ -23,7 +23,7 @@ TARGET_SECONDS = 15.0
 def main(repeats: int = 3) -> int:
     import openpyxl
 
-    from errdist.demo_data import FUND_NAME, simulate_prices
+    from errdist.data.demo import FUND_NAME, simulate_prices
     from errdist.workbook.template import build_workbook
 
     prices = simulate_prices()

@@ -21,20 +21,6 @@ from __future__ import annotations
 __version__ = "0.1.0"
 
 # isort: split
-from errdist.distribution import (
-    cdf,
-    check_params,
-    excess_kurtosis,
-    isf,
-    logcdf,
-    logpdf,
-    logsf,
-    pdf,
-    ppf,
-    rvs,
-    sf,
-    variance,
-)
 from errdist.errors import DomainError, InputTypeError, InsufficientDataError
 from errdist.estimate import (
     SHAPE_MAX,
@@ -51,21 +37,35 @@ from errdist.estimate import (
     solve_scale,
     solve_shape,
 )
+from errdist.law import (
+    cdf,
+    check_params,
+    excess_kurtosis,
+    isf,
+    logcdf,
+    logpdf,
+    logsf,
+    pdf,
+    ppf,
+    rvs,
+    sf,
+    variance,
+)
 
 # isort: split
-from errdist.backtest import (
+from errdist.checks.backtest import (
     BacktestResult,
     backtest,
     christoffersen,
     kupiec,
-    rolling_var,
     traffic_light,
 )
-from errdist.empirical import empirical_points, plotting_positions
-from errdist.goodness import GofResult, edf_statistic, goodness_of_fit
-from errdist.returns import returns_from_prices
+from errdist.checks.empirical import empirical_points, plotting_positions
+from errdist.checks.goodness import GofResult, edf_statistic, goodness_of_fit
+from errdist.checks.rivals import compare
+from errdist.checks.rolling import rolling_var
+from errdist.data.returns import returns_from_prices
 from errdist.risk import expected_shortfall, value_at_risk
-from errdist.rivals import compare
 
 __all__ = [
     "SHAPE_MAX",

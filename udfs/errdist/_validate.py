@@ -1,7 +1,7 @@
 """Shared input checks: number formatting for messages, float-array conversion, first-bad raising.
 
-Private to the package; the public modules (:mod:`errdist.distribution`, :mod:`errdist.risk`,
-:mod:`errdist.backtest`) raise through these so their messages read the same way.
+Private to the package; the public modules (:mod:`errdist.law.symmetric`, :mod:`errdist.risk`,
+:mod:`errdist.checks.backtest`) raise through these so their messages read the same way.
 """
 
 from __future__ import annotations

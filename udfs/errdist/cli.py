@@ -33,7 +33,7 @@ def _run_demo(args: argparse.Namespace) -> int:
     try:
         commands = importlib.import_module("errdist.workbook.commands")
     except ImportError:
-        from errdist.demo_report import print_demo_fit
+        from errdist.data.demo_report import print_demo_fit
 
         return print_demo_fit()
     return int(commands.run_demo(args) or 0)

@@ -55,7 +55,8 @@ from typing import Any
 
 import numpy as np
 
-from errdist import distribution, estimate, returns
+from errdist import estimate, law
+from errdist.data import returns
 from errdist.errors import ErrdistError
 from errdist.sheet.cells import SheetError, sheet_error
 from errdist.sheet.entry import (
@@ -190,8 +191,8 @@ _EXAMPLE_PRICES = [[100.0], [101.2], [None], [99.7], [100.4], [102.9]]
 # =====================================================================================
 
 
-_cdf_core = distribution.cdf
-_sf_core = distribution.sf
+_cdf_core = law.cdf
+_sf_core = law.sf
 
 
 def _cdf(x: Any, loc: Any, scale: Any, shape: Any, upper: bool) -> Any:
@@ -212,9 +213,7 @@ _MAX_ROWS = 1_048_576  # rows of a worksheet
 def _rand(count: float, loc: float, scale: float, shape: float, seed: Any) -> np.ndarray:
     n = _whole(count, "count", 1, _MAX_ROWS)
     s = None if seed is None else _whole(seed, "seed", 0, 2**63 - 1)
-    return np.asarray(distribution.rvs(n, loc, scale, shape, seed=s), dtype=np.float64).reshape(
-        -1, 1
-    )
+    return np.asarray(law.rvs(n, loc, scale, shape, seed=s), dtype=np.float64).reshape(-1, 1)
 
 
 def _fit_row(data: np.ndarray, method: str, header: bool) -> list[list[Any]]:
@@ -305,7 +304,7 @@ def _version() -> str:
 add(
     Entry(
         name="ERRDIST_PDF",
-        core="errdist.distribution:pdf",
+        core="errdist.law.symmetric:pdf",
         params=(
             number("x", "Value(s) at which to evaluate the density.", example=0.5),
             *_law(),
@@ -319,7 +318,7 @@ add(
 add(
     Entry(
         name="ERRDIST_CDF",
-        core="errdist.distribution:cdf",
+        core="errdist.law.symmetric:cdf",
         call=_cdf,
         params=(
             number("x", "Value(s) at which to evaluate the probability.", example=0.5),
@@ -333,7 +332,7 @@ add(
         result="spill",
         summary="Cumulative probability P(X <= x) of the error distribution, or the upper "
         "tail P(X > x) when upper is TRUE.",
-        notes="`upper` TRUE uses `errdist.distribution.sf`, so tail probabilities such as "
+        notes="`upper` TRUE uses `errdist.law.symmetric.sf`, so tail probabilities such as "
         "1e-300 keep their digits instead of rounding 1 − F(x) to 0.",
     )
 )
@@ -341,7 +340,7 @@ add(
 add(
     Entry(
         name="ERRDIST_INV",
-        core="errdist.distribution:ppf",
+        core="errdist.law.symmetric:ppf",
         params=(
             number("p", "Probability(ies) strictly between 0 and 1.", example=0.99),
             *_law(),
@@ -355,7 +354,7 @@ add(
 add(
     Entry(
         name="ERRDIST_RAND",
-        core="errdist.distribution:rvs",
+        core="errdist.law.symmetric:rvs",
         call=_rand,
         params=(
             number("count", "How many draws: a whole number from 1 up.", example=5, spill=False),
@@ -382,7 +381,7 @@ add(
 add(
     Entry(
         name="ERRDIST_VARIANCE",
-        core="errdist.distribution:variance",
+        core="errdist.law.moments:variance",
         params=(_scale(), _shape()),
         result="spill",
         summary="Variance a^2 Gamma(3/b) / Gamma(1/b) of the error distribution with scale a "
@@ -393,7 +392,7 @@ add(
 add(
     Entry(
         name="ERRDIST_KURT",
-        core="errdist.distribution:excess_kurtosis",
+        core="errdist.law.moments:excess_kurtosis",
         params=(_shape(),),
         result="spill",
         summary="Excess kurtosis Gamma(5/b) Gamma(1/b) / Gamma(3/b)^2 - 3 of the error "
@@ -492,7 +491,7 @@ add(
 add(
     Entry(
         name="ERRDIST_RETURNS",
-        core="errdist.returns:returns_from_prices",
+        core="errdist.data.returns:returns_from_prices",
         call=_returns,
         params=(
             data_range(
@@ -574,7 +573,7 @@ def _risk_params(*, loc_example: float = 0.0005) -> tuple[Param, ...]:
 def _backtest_table(
     returns_: np.ndarray, var_forecasts: np.ndarray, confidence: float, header: bool
 ) -> list[list[Any]]:
-    from errdist.backtest import backtest
+    from errdist.checks.backtest import backtest
 
     r, v = returns_.ravel(), var_forecasts.ravel()
     # The cell reader trims trailing blank rows, so ranges of equal height can arrive with
@@ -593,7 +592,7 @@ def _backtest_table(
 
 
 def _rolling_cells(returns_: np.ndarray, window: float, confidence: float, method: str) -> Any:
-    from errdist.backtest import rolling_var
+    from errdist.checks.rolling import rolling_var
 
     return rolling_var(returns_, _whole(window, "window", 4, _MAX_ROWS), confidence, method)
 
@@ -631,7 +630,7 @@ add(
 add(
     Entry(
         name="ERRDIST_BACKTEST",
-        core="errdist.backtest:backtest",
+        core="errdist.checks.backtest:backtest",
         call=_backtest_table,
         params=(
             data_range(
@@ -666,7 +665,7 @@ add(
 add(
     Entry(
         name="ERRDIST_ROLLING_VAR",
-        core="errdist.backtest:rolling_var",
+        core="errdist.checks.rolling:rolling_var",
         call=_rolling_cells,
         params=(
             data_range(
@@ -713,7 +712,7 @@ def _gof_table(
     samples: float,
     seed: float | None,
 ) -> list[list[Any]]:
-    from errdist.goodness import MAX_SAMPLES, goodness_of_fit
+    from errdist.checks.goodness import MAX_SAMPLES, goodness_of_fit
 
     n_samples = _whole(samples, "samples", 1, MAX_SAMPLES)
     s = None if seed is None else _whole(seed, "seed", 0, 2**63 - 1)
@@ -732,7 +731,7 @@ def _gof_table(
 
 
 def _compare_table(data: np.ndarray, header: bool) -> list[list[Any]]:
-    from errdist.rivals import compare
+    from errdist.checks.rivals import compare
 
     return compare(data).to_numpy(dtype=object).tolist()
 
@@ -740,7 +739,7 @@ def _compare_table(data: np.ndarray, header: bool) -> list[list[Any]]:
 def _empirical_table(
     data: np.ndarray, loc: float, scale: float, shape: float, header: bool
 ) -> list[list[Any]]:
-    from errdist.empirical import empirical_points
+    from errdist.checks.empirical import empirical_points
 
     return empirical_points(data, loc, scale, shape).to_numpy(dtype=np.float64).tolist()
 
@@ -748,7 +747,7 @@ def _empirical_table(
 add(
     Entry(
         name="ERRDIST_GOF",
-        core="errdist.goodness:goodness_of_fit",
+        core="errdist.checks.goodness:goodness_of_fit",
         call=_gof_table,
         params=(
             data_range("data", _DATA, example=_EXAMPLE_DATA),
@@ -813,7 +812,7 @@ add(
 add(
     Entry(
         name="ERRDIST_COMPARE",
-        core="errdist.rivals:compare",
+        core="errdist.checks.rivals:compare",
         call=_compare_table,
         params=(
             data_range("data", _DATA, example=_EXAMPLE_DATA),
@@ -836,7 +835,7 @@ add(
 add(
     Entry(
         name="ERRDIST_EMPIRICAL",
-        core="errdist.empirical:empirical_points",
+        core="errdist.checks.empirical:empirical_points",
         call=_empirical_table,
         params=(
             data_range("data", _DATA, example=_EXAMPLE_DATA),

@@ -155,7 +155,7 @@ def run_demo(args: argparse.Namespace) -> int:
     Writes ``args.out`` (default ``errdist-demo.xlsx`` in the current folder), never over an
     existing file unless ``args.force``.
     """
-    from errdist.demo_data import FUND_NAME, simulate_prices
+    from errdist.data.demo import FUND_NAME, simulate_prices
 
     t0 = time.perf_counter()
     out = Path(getattr(args, "out", None) or DEFAULT_DEMO_FILE)
@@ -178,12 +178,12 @@ def _require_xlsx(out: Path) -> None:
 def run_refresh(args: argparse.Namespace) -> int:
     """``errdist refresh``: read a prices file, build the month's workbook, print a summary.
 
-    Reads ``args.prices`` (:func:`errdist.workbook.prices_io.read_prices` with
+    Reads ``args.prices`` (:func:`errdist.data.prices_io.read_prices` with
     ``args.date_column``, ``args.price_column``, ``args.as_of``) and writes ``args.out``
     atomically, never over an existing file unless ``args.force``. The fund name is taken
     from the prices file's name (:func:`fund_name_from_file`).
     """
-    from errdist.workbook.prices_io import read_prices
+    from errdist.data.prices_io import read_prices
 
     t0 = time.perf_counter()
     out = Path(args.out)

@@ -292,7 +292,7 @@ def _guide(plan: Plan, ctx: _Ctx) -> None:
         f"Daily prices {first:%Y-%m-%d} to {last:%Y-%m-%d}: {ctx.n_prices} prices, "
         f"{ctx.n} log returns. Figures as of {last:%Y-%m-%d}.",
     )
-    from errdist.demo_data import FUND_NAME
+    from errdist.data.demo import FUND_NAME
 
     row = 3
     if ctx.fund == FUND_NAME:
@@ -1242,7 +1242,7 @@ def build_workbook(
 
 def main(argv: Sequence[str] | None = None) -> int:
     """Rebuild the template from the demo data: ``python -m errdist.workbook.template``."""
-    from errdist.demo_data import FUND_NAME, simulate_prices
+    from errdist.data.demo import FUND_NAME, simulate_prices
 
     parser = argparse.ArgumentParser(
         prog="python -m errdist.workbook.template",

@@ -48,7 +48,7 @@ Horizon rules (``horizon`` = :math:`h` days)
     (common practice, no source); exact only for the normal law. Any real :math:`h \ge 1`.
 ``"iid"``
     The exact law of the sum of :math:`h` i.i.d. one-day returns of the fitted law, computed by
-    numerical convolution (:mod:`errdist.horizon`); a fat one-day tail is *not* simply scaled
+    numerical convolution (:mod:`errdist.risk.horizon`); a fat one-day tail is *not* simply scaled
     up — the sum is closer to normal than the one-day law. Integer :math:`h \ge 1`.
 
 Both assume independent, identically distributed daily returns; volatility clustering and
@@ -66,9 +66,9 @@ from scipy import special as sc
 
 from errdist._validate import as_float_array, raise_first
 from errdist._validate import fmt_number as _fmt
-from errdist.distribution import check_params, ppf
 from errdist.errors import DomainError, InputTypeError
-from errdist.horizon import sum_lower_tail
+from errdist.law.symmetric import check_params, ppf
+from errdist.risk.horizon import sum_lower_tail
 
 __all__ = ["HORIZON_RULES", "expected_shortfall", "value_at_risk"]
 

@@ -38,10 +38,10 @@ import pandas as pd
 from numpy.typing import ArrayLike, NDArray
 from scipy import optimize, special, stats
 
-from errdist import distribution as _dist
 from errdist import estimate as _est
+from errdist.checks.goodness import kolmogorov_smirnov
 from errdist.errors import InsufficientDataError
-from errdist.goodness import kolmogorov_smirnov
+from errdist.law import symmetric as _dist
 from errdist.risk import value_at_risk
 
 __all__ = [

@@ -11,8 +11,8 @@ Cramér–von Mises
 Anderson–Darling
     ``A² = -n - (1/n) Σ_i (2i-1) [ln u_(i) + ln(1 - u_(n+1-i))]``
 
-``ln u`` and ``ln(1 - u)`` are taken from :func:`errdist.distribution.logcdf` and
-:func:`errdist.distribution.logsf`, so ``A²`` stays finite and accurate for observations in
+``ln u`` and ``ln(1 - u)`` are taken from :func:`errdist.law.symmetric.logcdf` and
+:func:`errdist.law.symmetric.logsf`, so ``A²`` stays finite and accurate for observations in
 the far tails where ``u`` or ``1 - u`` rounds to 0 or 1.
 
 When the law's parameters were estimated from the same data, the published tables of these
@@ -40,10 +40,10 @@ import numpy as np
 from numpy.typing import ArrayLike, NDArray
 from scipy import special as _special
 
-from errdist import distribution as _dist
 from errdist import estimate as _est
 from errdist.errors import DomainError, InputTypeError
-from errdist.mle_batch import mle_sorted_rows
+from errdist.estimate.mle_batch import mle_sorted_rows
+from errdist.law import symmetric as _dist
 
 __all__ = [
     "STATISTICS",
@@ -227,7 +227,7 @@ def goodness_of_fit(
     p-value ``(1 + #{T* >= T}) / (samples + 1)``, where ``T*`` are the statistics of the
     simulated data sets, each measured against its own MLE refit when the parameters were
     estimated (Stephens 1974 shows why the table p-values are wrong then). The simulated
-    data sets are drawn in one vectorised call of :func:`errdist.distribution.rvs`
+    data sets are drawn in one vectorised call of :func:`errdist.law.symmetric.rvs`
     (in chunks of about two million values for very large runs).
     """
     key = _statistic_key(statistic)
@@ -306,8 +306,8 @@ def _refit_rows(
     """MLE (loc, scale, shape) of every row of ascending-sorted simulated data.
 
     The exact MLE of :func:`errdist.estimate.fit`, for all rows at once
-    (:func:`errdist.mle_batch.mle_sorted_rows`: the one-sample search of
-    :func:`errdist.mle._mle_sorted` run on every row together, rows it cannot settle refitted
+    (:func:`errdist.estimate.mle_batch.mle_sorted_rows`: the one-sample search of
+    :func:`errdist.estimate.mle._mle_sorted` run on every row together, rows it cannot settle refitted
     by ``_mle_sorted`` itself), warm-started at the shape the rows were simulated with (the
     start only changes where the search begins, not the maximum it finds).
     """
@@ -329,7 +329,7 @@ def _bootstrap_statistic(
     evaluation instead of two. ``Q`` is taken as ``1 - P(1/b, z)`` where ``Q >= 0.1`` roughly
     (``z <= 2.5/b + 1``; ``P`` is the cheaper of the two there, and ``1 - P`` loses no relative
     accuracy when the result is that large) and from ``Q`` directly beyond. Values whose tail
-    underflows are passed to :func:`errdist.distribution.logcdf` / ``logsf``. ``P`` comes from
+    underflows are passed to :func:`errdist.law.symmetric.logcdf` / ``logsf``. ``P`` comes from
     its power series (:func:`_lower_gamma_series`, all rows at once; 2–3× cheaper than
     ``scipy.special.gammainc`` with a different ``a`` per row), ``Q`` from scipy.
     """

@@ -45,7 +45,7 @@ import threading
 import numpy as np
 from scipy.special import gammaln, psi, zeta
 
-from errdist.moment_solvers import solve_shape
+from errdist.law.moment_solvers import solve_shape
 
 __all__ = ["SHAPE_MAX", "SHAPE_MIN"]
 

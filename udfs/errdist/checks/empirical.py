@@ -28,8 +28,8 @@ import numpy as np
 import pandas as pd
 from numpy.typing import ArrayLike, NDArray
 
-from errdist import distribution as _dist
 from errdist import estimate as _est
+from errdist.law import symmetric as _dist
 
 __all__ = ["EMPIRICAL_COLUMNS", "empirical_points", "plotting_positions"]
 

@@ -1,12 +1,12 @@
 """Exact maximum-likelihood fits of the generalized normal law for many samples at once.
 
-The bootstrap of :mod:`errdist.goodness` refits hundreds of simulated samples of the same
-size. Here the search of :func:`errdist.mle._mle_sorted` runs on all rows of a (rows × n)
+The bootstrap of :mod:`errdist.checks.goodness` refits hundreds of simulated samples of the same
+size. Here the search of :func:`errdist.estimate.mle._mle_sorted` runs on all rows of a (rows × n)
 array of sorted samples at once, every step a numpy operation over the rows still searching
 (row compaction for the rows already done), so the per-call overhead of the one-row fit is
 paid once per step instead of once per row and step.
 
-Same law, likelihood and search as :mod:`errdist.mle` (Nadarajah 2005, "A generalized
+Same law, likelihood and search as :mod:`errdist.estimate.mle` (Nadarajah 2005, "A generalized
 normal distribution", J. Applied Statistics 32(7):685-694): with S_b(m) = Σ|xᵢ−m|^b the
 profile log-likelihood is
 
@@ -15,7 +15,7 @@ profile log-likelihood is
 and the scale is a = ((b/n)·S_b(m))^(1/b).
 
 1. Start shape b₀ > 1: joint Newton in (m, u = ln b) from the median, with the analytic
-   derivatives and step halving of :func:`errdist.mle._joint_newton`.
+   derivatives and step halving of :func:`errdist.estimate.mle._joint_newton`.
 2. Rows where that does not converge (or b₀ ≤ 1): alternate the exact shape for the current
    location (bracketed Newton in u) and the exact location for the current shape (b > 1:
    safeguarded Newton / Illinois false position on T(m) = Σ sign(x−m)|x−m|^(b−1), bracketed
@@ -28,7 +28,7 @@ Every row where the batched search is not certain — Newton or the alternation 
 converge, the shape hit SHAPE_MIN or SHAPE_MAX, the best observation is still near the edge
 of the searched window after six re-centred windows, the far-field series of a window would
 need too many terms, an exact tie spoils a Newton step, or the row is one of the last 8
-still alternating — is refitted by :func:`errdist.mle._mle_sorted` itself. The tests
+still alternating — is refitted by :func:`errdist.estimate.mle._mle_sorted` itself. The tests
 check on thousands of simulated rows that the log-likelihood is never below the one-by-one
 fit's (minus 1e-9).
 """
@@ -41,14 +41,14 @@ import numpy as np
 from numpy.typing import NDArray
 from scipy.special import gammaln, psi, zeta
 
-from errdist.mle import SHAPE_MAX, SHAPE_MIN, _mle_sorted
+from errdist.estimate.mle import SHAPE_MAX, SHAPE_MIN, _mle_sorted
 
 __all__ = ["mle_sorted_rows"]
 
 _U_MIN = math.log(SHAPE_MIN)
 _U_MAX = math.log(SHAPE_MAX)
 _LOG2 = math.log(2.0)
-_EXHAUSTIVE_N = 400  # as errdist.mle: below this, b <= 1 searches every observation
+_EXHAUSTIVE_N = 400  # as errdist.estimate.mle: below this, b <= 1 searches every observation
 _HALF_WINDOW = 8
 _ZERO_LOG = -1e300  # stands for ln 0 (exp(b·it) = 0 and 0·it = 0, without NaN)
 _BLOCK = 1 << 16  # elements of one (rows × candidates × observations) block (cache-sized)
@@ -72,16 +72,16 @@ def mle_sorted_rows(
     ----------
     xs : ndarray, shape (rows, n)
         Finite samples, each row sorted ascending and not constant (no checks: internal
-        entry point, like :func:`errdist.mle._mle_sorted`).
+        entry point, like :func:`errdist.estimate.mle._mle_sorted`).
     start_shape : float or None
         Shape where the search starts (clipped to [SHAPE_MIN, SHAPE_MAX]); None: the moment
-        estimate of each row, as :func:`errdist.mle._mle_sorted`.
+        estimate of each row, as :func:`errdist.estimate.mle._mle_sorted`.
 
     Returns
     -------
     loc, scale, shape, loglik : ndarray, shape (rows,)
         The exact MLE of each row: log-likelihood at least that of
-        :func:`errdist.mle._mle_sorted` on the row, minus rounding (the tests use 1e-9).
+        :func:`errdist.estimate.mle._mle_sorted` on the row, minus rounding (the tests use 1e-9).
     """
     xs = np.ascontiguousarray(xs, dtype=float)
     rows, n = xs.shape
@@ -132,7 +132,7 @@ def _fallback(
     scale: FloatArray | None = None,
     ll: FloatArray | None = None,
 ) -> tuple[FloatArray, FloatArray, FloatArray, FloatArray]:
-    """Fit rows ``idx`` one by one with :func:`errdist.mle._mle_sorted` (in place)."""
+    """Fit rows ``idx`` one by one with :func:`errdist.estimate.mle._mle_sorted` (in place)."""
     if scale is None or ll is None:
         scale = np.full(loc.size, np.nan)
         ll = np.full(loc.size, np.nan)
@@ -169,7 +169,7 @@ def _log_abs(xs: FloatArray, m: FloatArray) -> FloatArray:
 def _joint_newton(
     xs: FloatArray, m: FloatArray, b: FloatArray
 ) -> tuple[FloatArray, FloatArray, NDArray[np.bool_]]:
-    """Row-wise :func:`errdist.mle._joint_newton`: Newton on ℓ(m, u = ln b), step halving.
+    """Row-wise :func:`errdist.estimate.mle._joint_newton`: Newton on ℓ(m, u = ln b), step halving.
 
     Returns (m, b, converged); rows not converged carry the point where they stopped (the
     last accepted point when halving failed), as the one-row version does.
@@ -251,7 +251,7 @@ def _joint_newton(
 
 
 def _shape_given_loc(lg: FloatArray, b0: FloatArray) -> tuple[FloatArray, NDArray[np.bool_]]:
-    """Row-wise :func:`errdist.mle._shape_given_loc` (bracketed Newton in u = ln b).
+    """Row-wise :func:`errdist.estimate.mle._shape_given_loc` (bracketed Newton in u = ln b).
 
     ``lg`` holds ln|xᵢ−m| with _ZERO_LOG at ties. Returns (b, certain); rows whose
     maximum is at SHAPE_MIN or SHAPE_MAX, or that did not converge, are not certain.
@@ -363,7 +363,7 @@ def _root_step(
 def _loc_smooth(
     xs: FloatArray, b: FloatArray, m0: FloatArray, tol: FloatArray
 ) -> tuple[FloatArray, NDArray[np.bool_]]:
-    """Row-wise :func:`errdist.mle._loc_smooth`: root of T(m) = Σ sign(x−m)|x−m|^(b−1).
+    """Row-wise :func:`errdist.estimate.mle._loc_smooth`: root of T(m) = Σ sign(x−m)|x−m|^(b−1).
 
     Newton steps safeguarded by a bracket of the root and by false position (Illinois).
     Returns (m, converged).
@@ -645,7 +645,7 @@ def _alternate(
 ) -> tuple[FloatArray, FloatArray, NDArray[np.bool_]]:
     """Exact shape given location and exact location given shape, alternated row-wise.
 
-    Mirrors the alternation of :func:`errdist.mle._mle_sorted`. Returns (m, b, certain).
+    Mirrors the alternation of :func:`errdist.estimate.mle._mle_sorted`. Returns (m, b, certain).
     """
     rows, n = xs.shape
     m, b = m.copy(), b.copy()

@@ -1,4 +1,4 @@
-r"""The generalized normal ("error", exponential power) distribution.
+r"""The symmetric generalized normal ("error", exponential power) distribution.
 
 Location :math:`m`, scale :math:`a > 0`, shape :math:`b > 0`:
 
@@ -44,11 +44,17 @@ from errdist._validate import as_float_array as _as_float_array
 from errdist._validate import fmt_number as _fmt
 from errdist._validate import raise_first as _raise_first
 from errdist.errors import DomainError, InputTypeError
+from errdist.law._incgamma import (
+    _log_q_array,
+    _log_q_scalar,
+    _q_array,
+    _q_scalar,
+    _scalar_z,
+)
 
 __all__ = [
     "cdf",
     "check_params",
-    "excess_kurtosis",
     "isf",
     "logcdf",
     "logpdf",
@@ -57,19 +63,12 @@ __all__ = [
     "ppf",
     "rvs",
     "sf",
-    "variance",
 ]
 
 FloatOrArray = float | NDArray[np.float64]
 
 _INF = math.inf
 _LOG_HALF = -math.log(2.0)
-_LOG3 = math.log(3.0)
-#: Below this value of Q the log tail switches from log(gammaincc) to the continued fraction.
-_Q_SWITCH = 1e-250
-#: Q is taken as 1 - P while P <= this (relative error of Q <= 10 eps); beyond it, gammaincc.
-#: gammaincc is up to 50x slower than gammainc for shape > 1 near the body (z < 1), P is not.
-_P_SWITCH = 0.9
 #: ppf/isf invert P on |2p - 1| for p in [_P_CENTRAL, 1 - _P_CENTRAL], Q on 2 min(p, 1-p) outside.
 _P_CENTRAL = 0.05
 #: Python scalar types that take the fast scalar path (np.float64 subclasses float). Scalar
@@ -163,13 +162,6 @@ def _out(arr: NDArray[np.float64]) -> FloatOrArray:
     return float(arr) if arr.ndim == 0 else arr
 
 
-def _scalar_z(d: float, shape: float) -> float:
-    try:
-        return abs(d) ** shape
-    except OverflowError:
-        return _INF
-
-
 def _std_offsets(
     x: ArrayLike, loc: ArrayLike, scale: ArrayLike, shape: ArrayLike
 ) -> tuple[NDArray[np.float64], NDArray[np.float64], NDArray[np.float64]]:
@@ -183,47 +175,6 @@ def _std_offsets(
         else:
             d = np.divide(d, a)
     return d, a, b
-
-
-# --------------------------------------------------------------------------------------------
-# log of the regularized upper incomplete gamma function
-# --------------------------------------------------------------------------------------------
-def _log_q_cf(a: NDArray[np.float64], z: NDArray[np.float64]) -> NDArray[np.float64]:
-    r""":math:`\log Q(a, z)` by Legendre's continued fraction (valid and fast for z > a + 1).
-
-    .. math::
-
-        Q(a, z) = \frac{e^{-z} z^a}{\Gamma(a)}
-        \cfrac{1}{z + 1 - a - \cfrac{1 \cdot (1 - a)}{z + 3 - a - \cfrac{2 (2 - a)}{z + 5 - a - \cdots}}}
-
-    evaluated with the modified Lentz algorithm (Numerical Recipes, 3rd ed., §6.2, ``gcf``).
-    The result is :math:`a \log z - z - \log\Gamma(a) + \log h`, so it stays finite where
-    :math:`Q` itself underflows. ``z = inf`` gives ``-inf``.
-    """
-    out = np.full(z.shape, -_INF)
-    fin = np.isfinite(z)
-    if not np.any(fin):
-        return out
-    af, zf = a[fin], z[fin]
-    tiny = 1e-300
-    bb = zf + 1.0 - af
-    c = np.full(zf.shape, 1.0 / tiny)
-    d = 1.0 / bb
-    h = d.copy()
-    for i in range(1, 2000):
-        an = -i * (i - af)
-        bb = bb + 2.0
-        d = an * d + bb
-        d = np.where(np.abs(d) < tiny, tiny, d)
-        c = bb + an / c
-        c = np.where(np.abs(c) < tiny, tiny, c)
-        d = 1.0 / d
-        delta = d * c
-        h = h * delta
-        if np.all(np.abs(delta - 1.0) < 1e-16):
-            break
-    out[fin] = af * np.log(zf) - zf - _gammaln(af) + np.log(h)
-    return out
 
 
 # --------------------------------------------------------------------------------------------
@@ -313,74 +264,6 @@ def pdf(
 # --------------------------------------------------------------------------------------------
 # distribution and survival functions
 # --------------------------------------------------------------------------------------------
-def _q_scalar(d: float, shape: float) -> float:
-    """Upper tail mass ``Q(1/b, |d|**b)`` for a standardised offset ``d`` (scalar).
-
-    Shape 2 uses ``erfc(|d|)`` and shape 1 ``exp(-|d|)`` (exact identities for Q(1/2, d^2) and
-    Q(1, |d|), Abramowitz & Stegun 6.5.17 and 6.5.13): faster, and they skip rounding ``d**2``.
-    Other shapes: ``1 - P`` in the body (``z < 1/b + 1`` and ``P <= 0.9``: relative error of
-    ``Q`` <= 10 eps), ``gammaincc`` in the tails; the array path makes the same choice.
-    """
-    if shape == 2.0:
-        return math.erfc(abs(d))
-    if shape == 1.0:
-        return math.exp(-abs(d))
-    c = 1.0 / shape
-    z = _scalar_z(d, shape)
-    if z < c + 1.0:
-        p = float(_cs.gammainc(c, z))
-        if p <= _P_SWITCH:
-            return 1.0 - p
-    return float(_cs.gammaincc(c, z))
-
-
-def _q_array(d: NDArray[np.float64], b: NDArray[np.float64]) -> NDArray[np.float64]:
-    """Array version of :func:`_q_scalar` (special forms only for a scalar shape)."""
-    if b.ndim == 0:
-        bv = float(b)
-        if bv == 2.0:
-            return np.asarray(sc.erfc(np.abs(d)), dtype=np.float64)
-        if bv == 1.0:
-            return np.exp(-np.abs(d))
-    with np.errstate(over="ignore"):
-        z = np.abs(d) ** b
-    c = 1.0 / b
-    q = np.asarray(_gammainc(c, z), dtype=np.float64)
-    hard = (q > _P_SWITCH) | (z >= c + 1.0)
-    np.subtract(1.0, q, out=q)
-    if np.any(hard):
-        q[hard] = _gammaincc(c if c.ndim == 0 else np.broadcast_to(c, z.shape)[hard], z[hard])
-    return q
-
-
-def _log_q_array(
-    d: NDArray[np.float64], b: NDArray[np.float64]
-) -> tuple[NDArray[np.float64], NDArray[np.float64]]:
-    """``(Q, log Q)`` of ``Q(1/b, |d|**b)``; the log stays finite where ``Q`` underflows."""
-    q = _q_array(d, b)
-    with np.errstate(divide="ignore"):
-        out = np.log(q)
-    small = q < _Q_SWITCH
-    if np.any(small):
-        with np.errstate(over="ignore"):
-            zb = (np.abs(np.broadcast_to(d, q.shape)[small])) ** np.broadcast_to(b, q.shape)[small]
-        ab = 1.0 / np.broadcast_to(b, q.shape)[small]
-        out = np.array(out, copy=True)
-        out[small] = _log_q_cf(ab, zb)
-    return q, out
-
-
-def _log_q_scalar(d: float, shape: float) -> tuple[float, float]:
-    """Scalar ``(Q, log Q)`` of ``Q(1/b, |d|**b)``."""
-    q = _q_scalar(d, shape)
-    if q >= _Q_SWITCH:
-        return q, math.log(q)
-    z = _scalar_z(d, shape)
-    if z == _INF:
-        return q, -_INF
-    return q, float(_log_q_cf(np.array([1.0 / shape]), np.array([z]))[0])
-
-
 def _tail(
     x: ArrayLike, loc: ArrayLike, scale: ArrayLike, shape: ArrayLike, upper: bool
 ) -> FloatOrArray:
@@ -735,134 +618,3 @@ def rvs(
             "draws overflow the float range: loc or scale is too large for this shape"
         )
     return _out(draws)
-
-
-# --------------------------------------------------------------------------------------------
-# moments
-# --------------------------------------------------------------------------------------------
-def variance(scale: ArrayLike, shape: ArrayLike) -> FloatOrArray:
-    r"""Variance of the generalized normal distribution.
-
-    .. math::
-
-        \operatorname{Var} X = a^2\,\frac{\Gamma(3/b)}{\Gamma(1/b)}
-
-    (Nadarajah 2005, eq. 6), computed as :math:`a^2\exp(\log\Gamma(3/b) - \log\Gamma(1/b))`;
-    ``inf`` (no warning) where it exceeds the float range (very small shapes).
-    Limits: :math:`b = 2` gives :math:`a^2/2`; :math:`b \to \infty` gives :math:`a^2/3`.
-
-    Parameters
-    ----------
-    scale, shape : array_like
-        Scale :math:`a > 0`, shape :math:`b > 0`.
-
-    Returns
-    -------
-    float or numpy.ndarray
-    """
-    _, a, b = _params(0.0, scale, shape)
-    with np.errstate(over="ignore"):
-        v = a * a * np.exp(_gammaln(3.0 / b) - _gammaln(1.0 / b))
-    return _out(np.asarray(v, dtype=np.float64))
-
-
-#: (-1)^k zeta(k) / k * (5^k + 1 - 2*3^k), k = 2.., for the large-shape series of the kurtosis.
-_KURT_SERIES = [
-    (-1) ** k * float(sc.zeta(k)) / k * (5.0**k + 1.0 - 2.0 * 3.0**k) for k in range(2, 60)
-]
-
-
-def _log_kurt_ratio_large_shape(e: NDArray[np.float64]) -> NDArray[np.float64]:
-    r"""Series for :math:`\log(\Gamma(5e)\Gamma(e)/\Gamma(3e)^2) - \log(9/5)`, :math:`e = 1/b \le 0.05`.
-
-    From :math:`\log\Gamma(1+y) = -\gamma y + \sum_{k\ge2} (-1)^k \zeta(k) y^k / k`
-    (Abramowitz & Stegun 6.1.33); the linear terms cancel, leaving
-    :math:`\sum_{k\ge2} (-1)^k\zeta(k)(5^k + 1 - 2\cdot3^k)e^k/k`.
-    """
-    total = np.zeros_like(e)
-    power = e * e
-    for coef in _KURT_SERIES:
-        total += coef * power
-        power = power * e
-    return total
-
-
-#: Stirling-series coefficients B_2k / (2k (2k - 1)), k = 1..8 (Abramowitz & Stegun 6.1.40).
-_STIRLING = [
-    1 / 12,
-    -1 / 360,
-    1 / 1260,
-    -1 / 1680,
-    1 / 1188,
-    -691 / 360360,
-    1 / 156,
-    -3617 / 122400,
-]
-_KURT_CONST = math.log(3.0) - 0.5 * math.log(5.0)
-_KURT_SLOPE = 5.0 * math.log(5.0) - 6.0 * math.log(3.0)
-
-
-def _log_kurt_ratio_small_shape(b: NDArray[np.float64]) -> NDArray[np.float64]:
-    r""":math:`\log(\Gamma(5e)\Gamma(e)/\Gamma(3e)^2)` for :math:`e = 1/b \ge 10` by Stirling.
-
-    With :math:`\log\Gamma(y) = (y - \tfrac12)\log y - y + \tfrac12\log 2\pi
-    + \sum_k c_k y^{1-2k}` (A&S 6.1.40) the :math:`e\log e`, :math:`e` and :math:`\log 2\pi`
-    terms cancel exactly, leaving
-    :math:`e(5\log 5 - 6\log 3) + \log 3 - \tfrac12\log 5 + \sum_k c_k[(5e)^{1-2k} + e^{1-2k}
-    - 2(3e)^{1-2k}]`: no large gammaln values are subtracted.
-    """
-    e = 1.0 / b
-    total = _KURT_SLOPE / b + _KURT_CONST  # one rounding in the leading term
-    for k, ck in enumerate(_STIRLING, start=1):
-        pw = 1 - 2 * k
-        total = total + ck * ((5.0 * e) ** pw + e**pw - 2.0 * (3.0 * e) ** pw)
-    return total
-
-
-def excess_kurtosis(shape: ArrayLike) -> FloatOrArray:
-    r"""Excess kurtosis of the generalized normal distribution.
-
-    .. math::
-
-        \kappa(b) = \frac{\Gamma(5/b)\,\Gamma(1/b)}{\Gamma(3/b)^2} - 3
-
-    (Nadarajah 2005, eq. 8). Computed as
-    :math:`3\,\operatorname{expm1}(\log\Gamma(5/b) + \log\Gamma(1/b) - 2\log\Gamma(3/b) - \log 3)`
-    for moderate shapes (no cancellation near :math:`b = 2`, where :math:`\kappa = 0`), and for
-    :math:`b \ge 20` as :math:`-1.2 + 1.8\,\operatorname{expm1}(s)` with the series ``s`` of
-    :func:`_log_kurt_ratio_large_shape`, so the limit :math:`b \to \infty`, :math:`\kappa \to -1.2`,
-    is approached without loss. For :math:`b \le 0.1` the log-ratio comes from the Stirling
-    series with the large terms cancelled analytically (:func:`_log_kurt_ratio_small_shape`).
-    Very small shapes return ``inf`` (no overflow warning). Relative accuracy is limited by the
-    conditioning of :math:`\exp` near overflow: about :math:`5 \cdot 10^{-16}/b` for tiny
-    shapes (1.5e-13 at b = 0.003), 1e-15 elsewhere, 1e-16 absolute near b = 2.
-    Special values: :math:`b = 1` (Laplace) 3, :math:`b = 2` (normal) 0.
-
-    Parameters
-    ----------
-    shape : array_like
-        Shape :math:`b > 0`.
-
-    Returns
-    -------
-    float or numpy.ndarray
-    """
-    _, _, b = _params(0.0, 1.0, shape)
-    large = b >= 20.0
-    with np.errstate(over="ignore", invalid="ignore"):
-        e = 1.0 / b
-        lg = _gammaln(5.0 * e) + _gammaln(e) - 2.0 * _gammaln(3.0 * e)
-        k = 3.0 * np.expm1(lg - _LOG3)
-        # 5/b overflows to inf only for b < ~3e-308; the kurtosis is then certainly inf
-        k = np.where(np.isinf(e) | np.isnan(lg), _INF, k)
-    tiny = b <= 0.1
-    if np.any(tiny):
-        with np.errstate(over="ignore", invalid="ignore"):
-            lg_small = _log_kurt_ratio_small_shape(np.where(tiny, b, 0.1))
-            k = np.where(tiny, 3.0 * np.expm1(lg_small - _LOG3), k)
-            k = np.where(np.isinf(e), _INF, k)
-    if np.any(large):
-        k = np.where(
-            large, -1.2 + 1.8 * np.expm1(_log_kurt_ratio_large_shape(np.where(large, e, 0.0))), k
-        )
-    return _out(np.asarray(k, dtype=np.float64))

@@ -1,9 +1,9 @@
 """Estimation for the generalized normal ("error") law: sample statistics, moments, MLE.
 
 Public module of the estimation layer. Sample statistics follow the spreadsheet's
-conventions (see :mod:`errdist.sample_stats`); :func:`solve_shape` and :func:`solve_scale`
-invert the kurtosis and variance formulas (see :mod:`errdist.moment_solvers`); the exact
-maximum-likelihood engine lives in :mod:`errdist.mle`.
+conventions (see :mod:`errdist.estimate.sample_stats`); :func:`solve_shape` and :func:`solve_scale`
+invert the kurtosis and variance formulas (see :mod:`errdist.law.moment_solvers`); the exact
+maximum-likelihood engine lives in :mod:`errdist.estimate.mle`.
 
 The law (Nadarajah 2005, "A generalized normal distribution", J. Applied Statistics
 32(7):685-694), location m, scale a > 0, shape b > 0:
@@ -21,9 +21,8 @@ import numpy as np
 from scipy.special import gammaln
 
 from errdist.errors import DomainError, InputTypeError
-from errdist.mle import SHAPE_MAX, SHAPE_MIN, _mle_sorted, _sorted
-from errdist.moment_solvers import solve_scale, solve_shape
-from errdist.sample_stats import (
+from errdist.estimate.mle import SHAPE_MAX, SHAPE_MIN, _mle_sorted, _sorted
+from errdist.estimate.sample_stats import (
     _clean,
     _kurt,
     _mean,
@@ -36,6 +35,7 @@ from errdist.sample_stats import (
     sample_skewness,
     sample_std,
 )
+from errdist.law.moment_solvers import solve_scale, solve_shape
 
 __all__ = [
     "SHAPE_MAX",
@@ -187,7 +187,7 @@ def fit(
         Observations (1-D or 2-D, read row-major); NaN / blank entries are dropped.
     method : {"mle", "moments"}
         ``"mle"``: exact maximum likelihood, shape searched in [SHAPE_MIN, SHAPE_MAX]
-        (profile likelihood; see :mod:`errdist.mle`).
+        (profile likelihood; see :mod:`errdist.estimate.mle`).
         ``"moments"``: loc = MEDIAN, shape = :func:`solve_shape` (KURT),
         scale = :func:`solve_scale` (STDEV.S, shape) — the spreadsheet's own statistics, so
         a workbook doing the same by hand gets the same figures.

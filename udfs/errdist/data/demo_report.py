@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from errdist.demo_data import FUND_NAME, simulate_prices
+from errdist.data.demo import FUND_NAME, simulate_prices
 
 
 def fit_table_lines(returns: np.ndarray) -> list[str]:
