@@ -179,8 +179,8 @@ def test_backtest_counts_exceptions_strictly_and_drops_blanks() -> None:
     var = [0.02, 0.02, 0.02, 0.02, 0.02, 0.02, float("nan"), 0.02, None, 0.02]
     res = backtest(returns, var, 0.99)
     # kept pairs: days 1, 2, 3, 5, 8, 10 -> returns -0.03, 0.01, -0.02, -0.025, -0.05, -0.001
-    assert res.dropped == 4
-    assert res.observations == 6
+    assert res.n_dropped == 4
+    assert res.n == 6
     assert res.hits.tolist() == [1, 0, 0, 1, 1, 0]
     assert res.exceptions == 3
     assert res.expected == pytest.approx(0.06)
@@ -200,7 +200,7 @@ def test_backtest_on_250_days_gives_bcbs_plus_factor() -> None:
     returns[[10, 50, 90, 130, 170, 210]] = -0.05
     res = backtest(returns, np.full(250, 0.02), 0.99)
     assert res.exceptions == 6 and res.zone == "yellow" and res.plus_factor == 0.50
-    assert res.dropped == 0
+    assert res.n_dropped == 0
 
 
 @pytest.mark.parametrize(
@@ -236,3 +236,20 @@ def test_backtest_bad_inputs(args: tuple, error: type, message: str) -> None:
 def test_test_functions_bad_inputs(call, error: type, message: str) -> None:
     with pytest.raises(error, match=message):
         call()
+
+
+def test_result_vocabulary_and_deprecated_aliases() -> None:
+    # One vocabulary across results: n / n_dropped / confidence as in Fit and GofResult; the
+    # old names still answer for one release, with a DeprecationWarning.
+    r = np.array([0.01, -0.05, 0.0, np.nan, 0.02, -0.001])
+    v = np.full(r.size, 0.03)
+    res = backtest(r, v, 0.99)
+    assert (res.n, res.n_dropped, res.confidence) == (5, 1, 0.99)
+    with pytest.warns(DeprecationWarning, match="use .n"):
+        assert res.observations == 5
+    with pytest.warns(DeprecationWarning, match="use .n_dropped"):
+        assert res.dropped == 1
+    light = traffic_light(3, 250, 0.99)
+    assert (light.n, light.confidence) == (250, 0.99)
+    with pytest.warns(DeprecationWarning):
+        assert light.observations == 250

@@ -66,7 +66,7 @@ def test_column_shape_is_kept_and_feeds_backtest() -> None:
     out = rolling_var(r, 100, 0.99)
     assert out.shape == (300, 1)
     res = backtest(r, out, 0.99)
-    assert res.dropped == 100 and res.observations == 200
+    assert res.n_dropped == 100 and res.n == 200
 
 
 def test_moments_method_uses_spreadsheet_fit() -> None:

@@ -67,7 +67,18 @@ def test_gof_fitted_law_and_partial_parameters(xl: Any) -> None:
 def test_compare_rows_match_scipy(xl: Any) -> None:
     x = _returns(400, 11)
     got = xl.cells("ERRDIST_COMPARE", h.column(list(x)), True)
-    assert got[0] == ["law", "loc", "scale", "shape_or_df", "loglik", "aic", "bic", "ks", "var99"]
+    assert got[0] == [
+        "law",
+        "loc",
+        "scale",
+        "shape_or_df",
+        "loglik",
+        "aic",
+        "bic",
+        "ks",
+        "var99",
+        "at_bound",
+    ]
     rows = {r[0]: r for r in got[1:]}
     assert len(rows) == 5
     laws = {
@@ -78,7 +89,8 @@ def test_compare_rows_match_scipy(xl: Any) -> None:
         "generalized normal": lambda m, s, c: stats.gennorm(c, m, s),
     }
     for law, make in laws.items():
-        _, m, s, c, ll, aic, _bic, ks, var99 = rows[law]
+        _, m, s, c, ll, aic, _bic, ks, var99, at_bound = rows[law]
+        assert at_bound is False  # no shape or df at its search bound on these data
         d = make(m, s, c)
         assert ll == pytest.approx(d.logpdf(x).sum(), rel=1e-9)  # scipy.stats log-density
         assert ks == pytest.approx(stats.kstest(x, d.cdf).statistic, rel=1e-9)

@@ -162,3 +162,14 @@ def test_compare_constant_data() -> None:
 def test_compare_text_in_data() -> None:
     with pytest.raises(InputTypeError):
         compare([0.01, 0.02, "x", 0.03, 0.0])
+
+
+def test_compare_flags_parameters_at_their_bounds() -> None:
+    # Uniform data: the uniform law is the error law's limit as the shape grows without bound
+    # (Nadarajah 2005) and the Student t's as the degrees of freedom do, so both searches must
+    # stop at their upper bounds and say so; the two-parameter laws have no such bound.
+    x = np.random.default_rng(5).uniform(-1.0, 1.0, 2000)
+    table = compare(x).set_index("law")
+    assert bool(table.loc["generalized normal", "at_bound"]) is True
+    assert bool(table.loc["Student t", "at_bound"]) is True
+    assert not table.loc[["normal", "Laplace", "Cauchy"], "at_bound"].any()

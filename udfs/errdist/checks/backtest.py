@@ -42,6 +42,7 @@ approach to market risk capital requirements" (traffic-light zones; plus factors
 from __future__ import annotations
 
 import math
+import warnings
 from dataclasses import dataclass, field
 from typing import Any
 
@@ -112,7 +113,14 @@ class TrafficLight:
     plus_factor: float | None
     cumulative_probability: float
     exceptions: int
-    observations: int
+    n: int
+    confidence: float
+
+    @property
+    def observations(self) -> int:
+        """Deprecated alias of :attr:`n` (kept for one release)."""
+        _deprecated("TrafficLight.observations", "n")
+        return self.n
 
 
 @dataclass(frozen=True)
@@ -121,14 +129,16 @@ class BacktestResult:
 
     Attributes
     ----------
-    observations : int
-        Pairs (return, VaR forecast) used.
+    n : int
+        Pairs (return, VaR forecast) used (observation count).
     exceptions : int
         Days with ``return < -VaR``.
     expected : float
-        ``observations * (1 - confidence)``.
-    dropped : int
+        ``n * (1 - confidence)``.
+    n_dropped : int
         Pairs dropped because the return or the forecast was blank / NaN.
+    confidence : float
+        The VaR confidence tested.
     pof, independence, conditional_coverage : LRTest
         Kupiec's and Christoffersen's likelihood-ratio tests.
     zone, plus_factor, cumulative_probability
@@ -137,10 +147,10 @@ class BacktestResult:
         The exception indicator (0/1) of the pairs used, in order.
     """
 
-    observations: int
+    n: int
     exceptions: int
     expected: float
-    dropped: int
+    n_dropped: int
     confidence: float
     pof: LRTest
     independence: LRTest
@@ -150,13 +160,25 @@ class BacktestResult:
     cumulative_probability: float
     hits: NDArray[np.int8] = field(repr=False)
 
+    @property
+    def observations(self) -> int:
+        """Deprecated alias of :attr:`n` (kept for one release)."""
+        _deprecated("BacktestResult.observations", "n")
+        return self.n
+
+    @property
+    def dropped(self) -> int:
+        """Deprecated alias of :attr:`n_dropped` (kept for one release)."""
+        _deprecated("BacktestResult.dropped", "n_dropped")
+        return self.n_dropped
+
     def rows(self) -> list[tuple[str, float | int | str | None]]:
         """The result as (label, value) rows, in the order of the worksheet table."""
         return [
-            ("observations", self.observations),
+            ("observations", self.n),
             ("exceptions", self.exceptions),
             ("expected exceptions", self.expected),
-            ("pairs dropped", self.dropped),
+            ("pairs dropped", self.n_dropped),
             ("LR POF (Kupiec)", self.pof.statistic),
             ("p-value POF", self.pof.pvalue),
             ("LR IND (Christoffersen)", self.independence.statistic),
@@ -166,6 +188,14 @@ class BacktestResult:
             ("zone", self.zone),
             ("plus factor", self.plus_factor),
         ]
+
+
+def _deprecated(old: str, new: str) -> None:
+    warnings.warn(
+        f"{old} is deprecated; use .{new} (the same name as in Fit and GofResult)",
+        DeprecationWarning,
+        stacklevel=3,
+    )
 
 
 # --------------------------------------------------------------------------------------------
@@ -384,7 +414,7 @@ def traffic_light(
     plus: float | None = None
     if n == 250 and abs(c - 0.99) < 1e-12:
         plus = 0.0 if zone == "green" else (1.0 if zone == "red" else BCBS_PLUS_FACTORS[x])
-    return TrafficLight(zone, plus, cum, x, n)
+    return TrafficLight(zone, plus, cum, x, n, c)
 
 
 def backtest(returns: ArrayLike, var_forecasts: ArrayLike, confidence: float) -> BacktestResult:
@@ -438,10 +468,10 @@ def backtest(returns: ArrayLike, var_forecasts: ArrayLike, confidence: float) ->
     ch = christoffersen(hits, c)
     light = traffic_light(x, n, c)
     return BacktestResult(
-        observations=n,
+        n=n,
         exceptions=x,
         expected=n * (1.0 - c),
-        dropped=dropped,
+        n_dropped=dropped,
         confidence=c,
         pof=ch.pof,
         independence=ch.independence,

@@ -69,6 +69,7 @@ COLUMNS: tuple[str, ...] = (
     "bic",
     "ks",
     "var99",
+    "at_bound",
 )
 
 _DF_MIN, _DF_MAX = 0.05, 1.0e12
@@ -80,7 +81,9 @@ class RivalFit:
     """Maximum-likelihood fit of one law.
 
     ``shape_or_df`` is the GN shape for the generalized normal, the degrees of freedom for
-    Student t and NaN for the two-parameter laws; ``k`` is the number of fitted parameters.
+    Student t and NaN for the two-parameter laws; ``k`` is the number of fitted parameters;
+    ``at_bound`` is true when the shape (GN) or the degrees of freedom (Student t) stopped at
+    the edge of its search range, so the maximum may lie beyond it.
     """
 
     law: str
@@ -89,6 +92,7 @@ class RivalFit:
     shape_or_df: float
     loglik: float
     k: int
+    at_bound: bool = False
 
 
 # --------------------------------------------------------------------------------------------
@@ -233,7 +237,8 @@ def fit_student_t(x: NDArray[np.float64]) -> RivalFit:
     ll_n = _t_loglik(x, m_n, s_n, _DF_MAX)
     if ll_n > ll:
         m, s, nu, ll = m_n, s_n, _DF_MAX, ll_n
-    return RivalFit("Student t", m, s, nu, ll, 3)
+    at_bound = not (_DF_MIN * (1 + 1e-9) < nu < _DF_MAX * (1 - 1e-9))
+    return RivalFit("Student t", m, s, nu, ll, 3, at_bound)
 
 
 def fit_cauchy(x: NDArray[np.float64]) -> RivalFit:
@@ -247,7 +252,7 @@ def fit_cauchy(x: NDArray[np.float64]) -> RivalFit:
 def fit_generalized_normal(x: NDArray[np.float64]) -> RivalFit:
     """GN maximum-likelihood fit through :func:`errdist.estimate.fit`."""
     f = _est.fit(x, method="mle")
-    return RivalFit("generalized normal", f.loc, f.scale, f.shape, float(f.loglik), 3)
+    return RivalFit("generalized normal", f.loc, f.scale, f.shape, float(f.loglik), 3, f.at_bound)
 
 
 # --------------------------------------------------------------------------------------------
@@ -301,7 +306,8 @@ def compare(data: ArrayLike) -> pd.DataFrame:
         ``shape_or_df`` (GN shape b, Student t degrees of freedom ν, NaN otherwise);
         ``loglik`` (maximised ln L); ``aic`` = 2k - 2 ln L; ``bic`` = k ln n - 2 ln L;
         ``ks`` = sup |F_n - F| (Kolmogorov–Smirnov distance of the fitted law);
-        ``var99`` = -F⁻¹(0.01), the one-day 99% value at risk as a positive loss.
+        ``var99`` = -F⁻¹(0.01), the one-day 99% value at risk as a positive loss;
+        ``at_bound`` (bool): the shape or degrees of freedom stopped at its search bound.
     """
     x, _ = _est.clean_sample(data, name="data")
     x = np.sort(x)
@@ -328,6 +334,7 @@ def compare(data: ArrayLike) -> pd.DataFrame:
                 "bic": f.k * math.log(n) - 2.0 * f.loglik,
                 "ks": float(kolmogorov_smirnov(_cdf(f, x))),
                 "var99": _var99(f),
+                "at_bound": bool(f.at_bound),
             }
         )
     table = pd.DataFrame(rows, columns=list(COLUMNS))

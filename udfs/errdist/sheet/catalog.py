@@ -819,7 +819,18 @@ add(
             flag("header", "TRUE adds a row of column labels above the table."),
         ),
         result="table",
-        header=("law", "loc", "scale", "shape_or_df", "loglik", "aic", "bic", "ks", "var99"),
+        header=(
+            "law",
+            "loc",
+            "scale",
+            "shape_or_df",
+            "loglik",
+            "aic",
+            "bic",
+            "ks",
+            "var99",
+            "at_bound",
+        ),
         call_in_wizard=False,
         summary="Fits the error, normal, Laplace, Student t and Cauchy laws by maximum "
         "likelihood; one row each with log-likelihood, AIC, BIC, KS distance and 99% VaR, "
@@ -828,7 +839,8 @@ add(
         "freedom, blank otherwise); loglik; aic = 2k - 2 ln L; bic = k ln n - 2 ln L (k = 3 "
         "for the error law and t, 2 otherwise); ks = largest gap between the data's "
         "empirical distribution and the fitted law; var99 = one-day 99% VaR as a positive "
-        "loss. See `docs/model-checking.md`.",
+        "loss; at_bound = TRUE when the shape or degrees of freedom stopped at its search "
+        "bound. See `docs/model-checking.md`.",
     )
 )
 

@@ -222,6 +222,7 @@ _COMPARE_FMTS: dict[str, str] = {
     "bic": "num2",
     "ks": "num4",
     "var99": "pct",
+    "at_bound": "bool",
 }
 _BACKTEST_FMTS: dict[str, str] = {
     "observations": "int",
