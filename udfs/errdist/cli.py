@@ -6,6 +6,8 @@ Sub-commands dispatch to the modules that own the work:
 - ``errdist refresh``  the unattended monthly job (``errdist.workbook.commands.run_refresh``)
 - ``errdist check``    audit a workbook (``errdist.workbook.commands.run_check``)
 - ``errdist vba``      write the VBA module for manual import (``errdist.sheet.vba.main``)
+- ``errdist libreoffice install|uninstall``  live functions in LibreOffice Calc
+  (``errdist.libreoffice.commands.run``)
 - ``errdist version``  versions, for audit trails
 
 Errors in the user's input are printed as one line on standard error with exit code 2; no
@@ -102,7 +104,40 @@ def build_parser() -> argparse.ArgumentParser:
     check.add_argument(
         "--tolerance", type=float, default=1e-9, help="relative tolerance (default 1e-9)"
     )
+    check.add_argument(
+        "--engine",
+        choices=("formulas", "libreoffice"),
+        default="formulas",
+        help="what recomputes: the headless 'formulas' engine (default) or LibreOffice Calc, "
+        "live (needs libreoffice-calc, python3-uno, libreoffice-script-provider-python)",
+    )
+    check.add_argument(
+        "--venv",
+        default=None,
+        help="with --engine libreoffice: virtual environment made with LibreOffice's Python "
+        "(default: this one)",
+    )
     check.set_defaults(func=_dispatch("errdist.workbook.commands", "run_check"))
+
+    lo = sub.add_parser("libreoffice", help="live ERRDIST_ functions in LibreOffice Calc")
+    lo_sub = lo.add_subparsers(dest="lo_command", metavar="ACTION")
+    lo_install = lo_sub.add_parser(
+        "install", help="install (or refresh) the functions in a LibreOffice profile"
+    )
+    lo_uninstall = lo_sub.add_parser("uninstall", help="remove them from the profile")
+    for p in (lo_install, lo_uninstall):
+        p.add_argument(
+            "--profile",
+            default=None,
+            help="LibreOffice profile folder (default: the user's, e.g. ~/.config/libreoffice/4)",
+        )
+    lo_install.add_argument(
+        "--venv",
+        default=None,
+        help="virtual environment made with LibreOffice's Python that has errdist "
+        "(default: this one)",
+    )
+    lo.set_defaults(func=_dispatch("errdist.libreoffice.commands", "run"))
 
     vba = sub.add_parser("vba", help="write the VBA module (.bas) for manual import")
     vba.add_argument("--out", default=None, help="file to write (default: standard output)")
