@@ -154,9 +154,7 @@ def expected_formulas(book: BookFormulas) -> dict[tuple[str, str], str] | None:
         return None
     fund = _fund_name(book.constants.get((getattr(template, "GUIDE", "Guide"), "A1")))
     try:
-        plan = layout(
-            pd.DataFrame({"date": dates, "price": prices}), fund_name=fund or "fund"
-        )
+        plan = layout(pd.DataFrame({"date": dates, "price": prices}), fund_name=fund or "fund")
     except ValueError:
         return None
     return {(s, a1): normalise_formula(e.formula) for s, a1, e in plan.formula_cells()}
