@@ -5,6 +5,7 @@ Sub-commands dispatch to the modules that own the work:
 - ``errdist demo``     the demo month (``errdist.workbook.commands.run_demo``)
 - ``errdist refresh``  the unattended monthly job (``errdist.workbook.commands.run_refresh``)
 - ``errdist check``    audit a workbook (``errdist.workbook.commands.run_check``)
+- ``errdist freeze``   a values copy for recipients (``errdist.workbook.commands.run_freeze``)
 - ``errdist vba``      write the VBA module for manual import (``errdist.sheet.vba.main``)
 - ``errdist libreoffice install|uninstall``  live functions in LibreOffice Calc
   (``errdist.libreoffice.commands.run``)
@@ -31,14 +32,27 @@ def _dispatch(module: str, function: str) -> Callable[[argparse.Namespace], int]
     return run
 
 
+#: Packages of the ``headless`` extra (the workbook commands need them).
+HEADLESS_PACKAGES = frozenset({"formulas", "xlsxwriter", "openpyxl", "defusedxml"})
+HEADLESS_HINT = 'pip install "errdist[headless]"'
+
+
+def _missing_headless(exc: ImportError) -> str | None:
+    """The missing package of the headless extra behind ``exc``, or None."""
+    root = (exc.name or "").split(".")[0].lower()
+    return root if root in HEADLESS_PACKAGES else None
+
+
 def _run_demo(args: argparse.Namespace) -> int:
     try:
         commands = importlib.import_module("errdist.workbook.commands")
-    except ImportError:
+        return int(commands.run_demo(args) or 0)
+    except ImportError as exc:
+        if _missing_headless(exc) is None:
+            raise
         from errdist.data.demo_report import print_demo_fit
 
         return print_demo_fit()
-    return int(commands.run_demo(args) or 0)
 
 
 def _run_version(args: argparse.Namespace) -> int:
@@ -119,6 +133,14 @@ def build_parser() -> argparse.ArgumentParser:
     )
     check.set_defaults(func=_dispatch("errdist.workbook.commands", "run_check"))
 
+    freeze = sub.add_parser(
+        "freeze", help="write a values copy of a workbook (no formulas) for recipients"
+    )
+    freeze.add_argument("book", help="the live workbook (.xlsx)")
+    freeze.add_argument("--out", required=True, help="the values copy to write (.xlsx)")
+    freeze.add_argument("--force", action="store_true", help="overwrite an existing file")
+    freeze.set_defaults(func=_dispatch("errdist.workbook.commands", "run_freeze"))
+
     lo = sub.add_parser("libreoffice", help="live ERRDIST_ functions in LibreOffice Calc")
     lo_sub = lo.add_subparsers(dest="lo_command", metavar="ACTION")
     lo_install = lo_sub.add_parser(
@@ -159,6 +181,16 @@ def main(argv: Sequence[str] | None = None) -> int:
         return args.func(args)
     except (ValueError, OSError) as exc:
         print(f"errdist {args.command}: {exc}", file=sys.stderr)
+        return 2
+    except ImportError as exc:
+        missing = _missing_headless(exc)
+        if missing is None:
+            raise
+        print(
+            f"errdist {args.command}: needs the 'headless' extra ({missing} is not installed): "
+            f"{HEADLESS_HINT}",
+            file=sys.stderr,
+        )
         return 2
     except KeyboardInterrupt:
         print("errdist: interrupted; nothing written", file=sys.stderr)

@@ -1,4 +1,5 @@
-"""The unattended commands: ``errdist demo``, ``errdist refresh`` and ``errdist check``.
+"""The unattended commands: ``errdist demo``, ``errdist refresh``, ``errdist check`` and
+``errdist freeze``.
 
 ``errdist.cli`` parses the arguments and calls :func:`run_demo`, :func:`run_refresh` and
 :func:`run_check`; each returns the exit code. Bad input raises ``ValueError``/``OSError``
@@ -295,3 +296,19 @@ def run_check(args: argparse.Namespace) -> int:
         f"recomputed (relative tolerance {tolerance:g}; recomputed by {report.engine})"
     )
     return code | EXIT_VALUES
+
+
+def run_freeze(args: argparse.Namespace) -> int:
+    """``errdist freeze BOOK --out COPY``: a values copy (every formula replaced by its
+    stored value, formats and charts kept, a note on the Guide); never over an existing file
+    unless ``--force``."""
+    from errdist.workbook.freeze import freeze_workbook
+
+    out = Path(args.out)
+    _require_xlsx(out)
+    check_target(out, force=bool(getattr(args, "force", False)))
+    freeze_workbook(args.book, out, force=bool(getattr(args, "force", False)))
+    print(
+        f"wrote {out}: values only, from {args.book} (send this one to readers without the add-in)"
+    )
+    return 0

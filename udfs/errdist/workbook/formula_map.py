@@ -93,7 +93,7 @@ def book_formulas(path: str | os.PathLike[str]) -> BookFormulas:
     from errdist.workbook import safety
 
     safety.defuse_xml()
-    book = load_workbook(str(path), data_only=False)
+    book = load_workbook(str(path), data_only=False, read_only=True)
     formulas: dict[tuple[str, str], str] = {}
     anchors: dict[tuple[str, str], str] = {}
     constants: dict[tuple[str, str], Any] = {}
@@ -102,6 +102,8 @@ def book_formulas(path: str | os.PathLike[str]) -> BookFormulas:
             for row in ws.iter_rows():
                 for c in row:
                     v = c.value
+                    if v is None:
+                        continue
                     key = (ws.title, c.coordinate)
                     if isinstance(v, ArrayFormula):
                         text = normalise_formula(v.text or "")
