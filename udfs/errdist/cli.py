@@ -43,16 +43,34 @@ def _missing_headless(exc: ImportError) -> str | None:
     return root if root in HEADLESS_PACKAGES else None
 
 
-def _run_demo(args: argparse.Namespace) -> int:
-    try:
-        commands = importlib.import_module("errdist.workbook.commands")
-        return int(commands.run_demo(args) or 0)
-    except ImportError as exc:
-        if _missing_headless(exc) is None:
-            raise
-        from errdist.data.demo_report import print_demo_fit
+#: Commands that read or write workbooks (they need the headless extra).
+WORKBOOK_COMMANDS = frozenset({"refresh", "check", "freeze"})
 
-        return print_demo_fit()
+
+def missing_headless_package() -> str | None:
+    """The first package of the headless extra that cannot be imported, or None."""
+    import importlib.util
+
+    for name in sorted(HEADLESS_PACKAGES):
+        try:
+            if importlib.util.find_spec(name) is None:
+                return name
+        except (ImportError, ValueError):
+            return name
+    return None
+
+
+def _run_demo(args: argparse.Namespace) -> int:
+    if missing_headless_package() is None:
+        try:
+            commands = importlib.import_module("errdist.workbook.commands")
+            return int(commands.run_demo(args) or 0)
+        except ImportError as exc:
+            if _missing_headless(exc) is None:
+                raise
+    from errdist.data.demo_report import print_demo_fit
+
+    return print_demo_fit()
 
 
 def _run_version(args: argparse.Namespace) -> int:
@@ -177,6 +195,15 @@ def main(argv: Sequence[str] | None = None) -> int:
     if not getattr(args, "command", None):
         parser.print_help()
         return 2
+    if args.command in WORKBOOK_COMMANDS:
+        missing = missing_headless_package()
+        if missing is not None:
+            print(
+                f"errdist {args.command}: needs the 'headless' extra ({missing} is not "
+                f"installed): {HEADLESS_HINT}",
+                file=sys.stderr,
+            )
+            return 2
     try:
         return args.func(args)
     except (ValueError, OSError) as exc:
