@@ -183,3 +183,18 @@ def _read_ppm(path: Path) -> np.ndarray:
     assert head[0] == b"P6", head[0]
     w, h = int(head[1]), int(head[2])
     return np.frombuffer(data[-w * h * 3 :], dtype=np.uint8).reshape(h, w, 3).astype(int)
+
+
+def test_demo_writes_a_values_copy_beside_the_live_book(tmp_path: Path) -> None:
+    from errdist.cli import main
+
+    live, copy = tmp_path / "demo.xlsx", tmp_path / "demo-values.xlsx"
+    assert main(["demo", "--out", str(live), "--values-copy", str(copy)]) == 0
+    with zipfile.ZipFile(live) as a, zipfile.ZipFile(copy) as b:
+        sheets = [n for n in a.namelist() if n.startswith("xl/worksheets/sheet")]
+        assert any(b"<f" in a.read(n) for n in sheets)
+        assert not any(b"<f>" in b.read(n) or b"<f " in b.read(n) for n in sheets)
+    # Refused up front when the copy would overwrite the live book: nothing is written.
+    other = tmp_path / "other.xlsx"
+    assert main(["demo", "--out", str(other), "--values-copy", str(other)]) == 2
+    assert not other.exists()

@@ -102,6 +102,12 @@ def build_parser() -> argparse.ArgumentParser:
         help="workbook to write (default: errdist-demo.xlsx in the current folder)",
     )
     demo.add_argument("--force", action="store_true", help="overwrite an existing file")
+    demo.add_argument(
+        "--values-copy",
+        dest="values_copy",
+        default=None,
+        help="also write a values copy (no formulas) for readers without the add-in",
+    )
     demo.set_defaults(func=_run_demo)
 
     refresh = sub.add_parser("refresh", help="build the month's workbook from a prices file")
@@ -126,6 +132,12 @@ def build_parser() -> argparse.ArgumentParser:
         help="name of the price column (default: detected)",
     )
     refresh.add_argument("--force", action="store_true", help="overwrite an existing file")
+    refresh.add_argument(
+        "--values-copy",
+        dest="values_copy",
+        default=None,
+        help="also write a values copy (no formulas) for readers without the add-in",
+    )
     refresh.set_defaults(func=_dispatch("errdist.workbook.commands", "run_refresh"))
 
     check = sub.add_parser(

@@ -163,12 +163,36 @@ def run_demo(args: argparse.Namespace) -> int:
     force = bool(getattr(args, "force", False))
     _require_xlsx(out)
     check_target(out, force=force)
+    copy = _values_copy_target(args, out, force)
     progress = _Progress()
     with progress.step("simulating prices"):
         prices = simulate_prices()
     result = _build(prices, out, fund_name=FUND_NAME, as_of=None, force=force, progress=progress)
     print(format_summary(result.summary, out, time.perf_counter() - t0))
+    _write_values_copy(out, copy, force)
     return 0
+
+
+def _values_copy_target(args: argparse.Namespace, out: Path, force: bool) -> Path | None:
+    """``--values-copy FILE``, checked before anything is built (None when not asked)."""
+    name = getattr(args, "values_copy", None)
+    if not name:
+        return None
+    copy = Path(name)
+    _require_xlsx(copy)
+    if copy.resolve() == out.resolve():
+        raise ValueError(f"--values-copy {copy} is the live workbook itself; choose another name")
+    check_target(copy, force=force)
+    return copy
+
+
+def _write_values_copy(out: Path, copy: Path | None, force: bool) -> None:
+    if copy is None:
+        return
+    from errdist.workbook.freeze import freeze_workbook
+
+    freeze_workbook(out, copy, force=force)
+    print(f"values copy (no formulas, for readers without the add-in): {copy}")
 
 
 def _require_xlsx(out: Path) -> None:
@@ -194,6 +218,7 @@ def run_refresh(args: argparse.Namespace) -> int:
     if src.exists() and out.exists() and src.resolve() == out.resolve():
         raise ValueError(f"--out {out} is the prices file itself; choose another name")
     check_target(out, force=force)
+    copy = _values_copy_target(args, out, force)
     progress = _Progress()
     as_of = getattr(args, "as_of", None)
     with progress.step("reading prices"):
@@ -224,6 +249,7 @@ def run_refresh(args: argparse.Namespace) -> int:
             f"{prices.attrs.get('price_column')!r})"
         )
     print(format_summary(result.summary, out, time.perf_counter() - t0))
+    _write_values_copy(out, copy, force)
     return 0
 
 
