@@ -137,7 +137,10 @@ def expected_formulas(book: BookFormulas) -> dict[tuple[str, str], str] | None:
     layout = getattr(template, "layout_workbook", None)
     if layout is None:
         return None
-    prices_sheet = getattr(template, "PRICES", "Prices")
+    from errdist.workbook.sheets import guide as guide_sheet
+    from errdist.workbook.sheets import prices as prices_sheet_module
+
+    prices_sheet = prices_sheet_module.NAME
     dates, prices = [], []
     row = 2
     while True:
@@ -154,7 +157,7 @@ def expected_formulas(book: BookFormulas) -> dict[tuple[str, str], str] | None:
         row += 1
     if not dates:
         return None
-    fund = _fund_name(book.constants.get((getattr(template, "GUIDE", "Guide"), "A1")))
+    fund = _fund_name(book.constants.get((guide_sheet.NAME, "A1")))
     try:
         plan = layout(pd.DataFrame({"date": dates, "price": prices}), fund_name=fund or "fund")
     except ValueError:
