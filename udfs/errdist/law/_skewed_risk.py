@@ -70,6 +70,66 @@ def _check(confidence: Any, horizon: Any, amount: Any) -> tuple[NDArray[np.float
     return c, h, amt
 
 
+def _standard_tail(
+    u: NDArray[np.float64], b: NDArray[np.float64], lam: NDArray[np.float64]
+) -> tuple[NDArray[np.float64], NDArray[np.float64], NDArray[np.float64]]:
+    r"""Quantile :math:`t = F_Y^{-1}(u)` of the standard law (m = 0, a = 1), its lower partial
+    mean :math:`E[Y; Y \le t]` and :math:`g_1 = \Gamma(2/b)/\Gamma(1/b)` (module docstring;
+    arguments checked by the caller)."""
+    with np.errstate(over="ignore", invalid="ignore", divide="ignore"):
+        t = np.asarray(_core.ppf(u, 0.0, 1.0, b, lam), dtype=np.float64)
+        g1 = np.exp(gammaln(2.0 / b) - gammaln(1.0 / b))
+        left = t <= 0.0
+        s = np.where(left, 1.0 - lam, 1.0 + lam)
+        z = (np.abs(t) / s) ** b
+        piece = 0.5 * s * s * g1 * gammaincc(2.0 / b, z)
+        tail_sum = np.where(left, -piece, 2.0 * lam * g1 - piece)  # E[Y; Y <= t]
+    return t, tail_sum, g1
+
+
+def lower_tail(
+    p: ArrayLike,
+    loc: ArrayLike = 0.0,
+    scale: ArrayLike = 1.0,
+    shape: ArrayLike = 2.0,
+    skew: ArrayLike = 0.0,
+) -> tuple[FloatOrArray, FloatOrArray]:
+    r"""Quantile and lower tail mean at a lower-tail probability ``p``.
+
+    .. math::
+
+        q = F^{-1}(p) = m + a t, \qquad E[X \mid X \le q] = m + \frac{a}{p} E[Y; Y \le t]
+
+    (closed form in the module docstring), so :math:`\mathrm{VaR} = -q` and
+    :math:`\mathrm{ES} = -E[X \mid X \le q]` at confidence :math:`1 - p`. Taking ``p``
+    itself (not a confidence) keeps full relative accuracy for tiny tail probabilities; this
+    is what a conditional model's forecast law :math:`\mu + \sigma Z` needs.
+
+    Parameters
+    ----------
+    p : array_like
+        Lower-tail probabilities in (0, 1).
+    loc, scale, shape, skew : array_like
+        As in :func:`errdist.law.skewed.pdf`.
+
+    Returns
+    -------
+    (q, tail_mean) : floats, or arrays of the broadcast shape
+    """
+    u = as_float_array("p", p, strict=False)
+    bad = ~((u > 0.0) & (u < 1.0))
+    if np.any(bad):
+        raise_first("p", u, bad, "a probability in (0, 1)")
+    m, a, b, lam = _core._arrays(loc, scale, shape, skew)
+    scalar = all(x.ndim == 0 for x in (u, m, a, b, lam))
+    u, m, a, b, lam = np.broadcast_arrays(u, m, a, b, lam)
+    t, tail_sum, _ = _standard_tail(u, b, lam)
+    with np.errstate(over="ignore", invalid="ignore"):
+        q = m + a * t
+        e = m + a * (tail_sum / u)
+    return _out(np.asarray(q), scalar), _out(np.asarray(e), scalar)
+
+
 def _risk(
     confidence: Any, loc: Any, scale: Any, shape: Any, skew: Any, horizon: Any, amount: Any
 ) -> tuple[NDArray[np.float64], NDArray[np.float64], bool]:
@@ -80,13 +140,7 @@ def _risk(
     c, m, a, b, lam = np.broadcast_arrays(c, m, a, b, lam)
     u = 1.0 - c
     with np.errstate(over="ignore", invalid="ignore", divide="ignore"):
-        t = np.asarray(_core.ppf(u, 0.0, 1.0, b, lam), dtype=np.float64)
-        g1 = np.exp(gammaln(2.0 / b) - gammaln(1.0 / b))
-        left = t <= 0.0
-        s = np.where(left, 1.0 - lam, 1.0 + lam)
-        z = (np.abs(t) / s) ** b
-        piece = 0.5 * s * s * g1 * gammaincc(2.0 / b, z)
-        tail_sum = np.where(left, -piece, 2.0 * lam * g1 - piece)  # E[Y; Y <= t]
+        t, tail_sum, g1 = _standard_tail(u, b, lam)
         e = tail_sum / u
         mu = 2.0 * lam * g1  # mean of Y
         root = math.sqrt(h)
