@@ -39,35 +39,23 @@ from numpy.typing import ArrayLike, NDArray
 from scipy.special import gammaincc, gammaln
 
 from errdist._validate import as_float_array, raise_first
-from errdist._validate import fmt_number as _fmt
-from errdist.errors import DomainError, InputTypeError
+from errdist.errors import DomainError
 from errdist.law import _skewed_core as _core
 from errdist.risk import expected_shortfall as _sym_es
+from errdist.risk import measures as _measures
 from errdist.risk import value_at_risk as _sym_var
+from errdist.risk.measures import _out
 
 FloatOrArray = float | NDArray[np.float64]
 
 
 def _check(confidence: Any, horizon: Any, amount: Any) -> tuple[NDArray[np.float64], float, Any]:
-    c = as_float_array("confidence", confidence, strict=False)
-    bad = ~((c > 0.0) & (c < 1.0))
-    if np.any(bad):
-        raise_first("confidence", c, bad, "a fraction in (0, 1) such as 0.99")
-    if isinstance(horizon, (str, bytes, bool)):
-        raise InputTypeError(f"horizon must be a number of days, got {horizon!r}")
-    h_arr = as_float_array("horizon", horizon, strict=False)
-    if h_arr.ndim != 0:
-        raise InputTypeError("horizon must be a single number of days, got an array")
-    h = float(h_arr)
-    if not (math.isfinite(h) and h >= 1.0):
-        raise DomainError(f"horizon must be >= 1 day, got {_fmt(h)}")
-    amt = None
-    if amount is not None:
-        amt = as_float_array("amount", amount, strict=False)
-        bad = ~(np.isfinite(amt) & (amt > 0.0))
-        if np.any(bad):
-            raise_first("amount", amt, bad, "> 0 (a position value)")
-    return c, h, amt
+    """The symmetric law's checks of confidence, horizon (square-root rule) and amount."""
+    return (
+        _measures._check_confidence(confidence),
+        _measures._check_horizon(horizon, "sqrt"),
+        _measures._check_amount(amount),
+    )
 
 
 def _standard_tail(
@@ -155,10 +143,6 @@ def _risk(
             "amount is too large"
         )
     return np.asarray(var, dtype=np.float64), np.asarray(es, dtype=np.float64), scalar
-
-
-def _out(arr: NDArray[np.float64], scalar: bool) -> FloatOrArray:
-    return float(arr.reshape(-1)[0]) if scalar else arr
 
 
 def value_at_risk(

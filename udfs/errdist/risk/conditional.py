@@ -60,6 +60,7 @@ import numpy as np
 from numpy.typing import ArrayLike, NDArray
 from scipy import signal
 
+from errdist._validate import check_confidence
 from errdist._validate import fmt_number as _fmt
 from errdist.errors import DomainError, InputTypeError, InsufficientDataError
 from errdist.law.skewed import fit_skewed
@@ -150,12 +151,7 @@ class ConditionalFit:
 # input checks
 # --------------------------------------------------------------------------------------------
 def _confidence(confidence: Any) -> float:
-    if isinstance(confidence, (str, bytes, bool)) or confidence is None:
-        raise InputTypeError(f"confidence must be a number, got {confidence!r}")
-    c = float(confidence)
-    if not 0.5 <= c < 1.0:
-        raise DomainError(f"confidence must be a fraction in [0.5, 1) such as 0.99, got {_fmt(c)}")
-    return c
+    return check_confidence(confidence, minimum=0.5)
 
 
 def clean_returns(
