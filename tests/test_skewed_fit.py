@@ -235,3 +235,26 @@ def test_bad_data() -> None:
         K.fit_skewed([0.1, 0.2, np.inf, 0.3, 0.5, 0.6])
     with pytest.raises(InputTypeError):
         K.fit_skewed(["a", 0.1, 0.2, 0.3, 0.4])
+
+
+def test_local_method_from_a_start_and_mean_std() -> None:
+    # Reference: the exact search (no start point) and scipy.integrate.quad of the fitted
+    # density for the mean and standard deviation; data: arch.data nasdaq.
+    from scipy import integrate
+
+    r = NASDAQ
+    x0, x1 = r[2000:2500], r[2010:2510]  # two windows ten days apart, as in a rolling refit
+    prev = K.fit_skewed(x0)
+    local = K.fit_skewed(x1, start=prev, method="local")
+    exact = K.fit_skewed(x1)
+    assert local.loglik == pytest.approx(exact.loglik, abs=1e-6)
+    assert local.loglik <= exact.loglik + 1e-9
+    assert K.fit_skewed(x1, method="local").loglik == exact.loglik  # no start: exact search
+    f = lambda t: K.pdf(t, exact.loc, exact.scale, exact.shape, exact.skew)  # noqa: E731
+    pts = [exact.loc]
+    mean = integrate.quad(lambda t: t * f(t), -1, 1, points=pts, limit=400, epsabs=1e-14)[0]
+    m2 = integrate.quad(lambda t: (t - mean) ** 2 * f(t), -1, 1, points=pts, limit=400)[0]
+    assert exact.mean == pytest.approx(mean, rel=1e-7, abs=1e-12)
+    assert exact.std == pytest.approx(math.sqrt(m2), rel=1e-7)
+    with pytest.raises(DomainError, match="method must be 'exact' or 'local'"):
+        K.fit_skewed(x1, method="fast")

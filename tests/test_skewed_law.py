@@ -320,6 +320,24 @@ def test_var_es_match_mpmath(b: float, lam: float, c: float) -> None:
     assert es >= var
 
 
+@pytest.mark.parametrize(("b", "lam"), [(0.7, -0.6), (1.5, 0.3), (3.0, -0.2)])
+@pytest.mark.parametrize("p", [1e-12, 1e-4, 0.05, 0.8])
+def test_lower_tail_matches_mpmath(b: float, lam: float, p: float) -> None:
+    # Source: mpmath quad of the density (tail mass) and of x f(x) below the quantile.
+    # Tiny p is given as a probability, not as a confidence 1 - p (which would round).
+    m, a = 0.0005, 0.009
+    q, tail_mean = K.lower_tail(p, m, a, b, lam)
+    ref_u = mp_cdf_sf_quad(q, m, a, b, lam)[0]
+    assert rel(ref_u, mp.mpf(p)) < 1e-12
+    f = lambda t: t * mp_pdf(t, m, a, b, lam)  # noqa: E731
+    pieces = [-mp.inf, q] if q <= m else [-mp.inf, m, q]
+    assert rel(tail_mean, mp.quad(f, pieces) / ref_u) < 1e-12
+    qs, _ = K.lower_tail(np.array([p, p]), m, a, b, np.array([lam, -lam]))
+    assert qs[0] == q
+    with pytest.raises(DomainError, match="p must be a probability in"):
+        K.lower_tail(0.0, m, a, b, lam)
+
+
 @pytest.mark.parametrize("lam", [-0.4, 0.25])
 def test_laplace_es_is_var_plus_left_half_scale(lam: float) -> None:
     # Source: exponential tail (memoryless), common practice: ES = VaR + a(1 - l) for b = 1.

@@ -25,37 +25,24 @@ the end.
 
 from __future__ import annotations
 
+import importlib.util
 import json
 import os
 import subprocess
 import sys
-import time
 import uuid
+from pathlib import Path
 
-import uno  # type: ignore[import-not-found]
-from com.sun.star.beans import PropertyValue  # type: ignore[import-not-found]
+import uno  # type: ignore[import-not-found]  # noqa: F401 - fail early without python3-uno
 
-
-def _prop(name: str, value: object) -> PropertyValue:
-    p = PropertyValue()
-    p.Name = name
-    p.Value = value
-    return p
-
-
-def _connect(pipe: str, proc: subprocess.Popen, timeout: float = 60.0):
-    local = uno.getComponentContext()
-    resolver = local.ServiceManager.createInstanceWithContext(
-        "com.sun.star.bridge.UnoUrlResolver", local
-    )
-    deadline = time.time() + timeout
-    while True:
-        try:
-            return resolver.resolve(f"uno:pipe,name={pipe};urp;StarOffice.ComponentContext")
-        except Exception:  # noqa: BLE001 - NoConnectException until soffice listens
-            if proc.poll() is not None or time.time() > deadline:
-                raise RuntimeError("LibreOffice did not start listening") from None
-            time.sleep(0.3)
+# The UNO connection helpers are the package's own (errdist/libreoffice/uno_recalc.py), loaded
+# by file path: the system Python that has ``uno`` need not have errdist's dependencies.
+_HELPER = Path(__file__).resolve().parents[1] / "udfs" / "errdist" / "libreoffice" / "uno_recalc.py"
+_spec = importlib.util.spec_from_file_location("errdist_uno_recalc", _HELPER)
+_uno_recalc = importlib.util.module_from_spec(_spec)  # type: ignore[arg-type]
+_spec.loader.exec_module(_uno_recalc)  # type: ignore[union-attr]
+_prop = _uno_recalc._prop
+_connect = _uno_recalc._connect
 
 
 def _cell_value(cell) -> list[object]:

@@ -13,7 +13,7 @@ from numpy.typing import NDArray
 
 from errdist.errors import DomainError, InputTypeError
 
-__all__ = ["as_float_array", "fmt_number", "raise_first"]
+__all__ = ["as_float_array", "check_confidence", "fmt_number", "raise_first"]
 
 
 def fmt_number(value: Any) -> str:
@@ -68,3 +68,33 @@ def raise_first(name: str, arr: NDArray[np.float64], bad: NDArray[np.bool_], rul
     index = np.unravel_index(flat, arr.shape)
     where = str(index[0]) if arr.ndim == 1 else str(tuple(int(i) for i in index))
     raise DomainError(f"{name} must be {rule}, got {fmt_number(arr[index])} at position {where}")
+
+
+def check_confidence(confidence: Any, minimum: float = 0.0) -> float:
+    """One VaR/ES confidence as a float, or raise.
+
+    ``minimum`` 0 accepts the open interval (0, 1); a positive ``minimum`` accepts
+    ``[minimum, 1)`` (the conditional models take 0.5 and above).
+
+    Raises
+    ------
+    InputTypeError
+        Text, a bool, None or an array.
+    DomainError
+        Outside the interval: ``"confidence must be a fraction in (0, 1) such as 0.99, got 1"``.
+    """
+    if isinstance(confidence, (str, bytes, bool)) or confidence is None:
+        raise InputTypeError(f"confidence must be a number, got {confidence!r}")
+    try:
+        c = float(confidence)
+    except (TypeError, ValueError) as exc:
+        raise InputTypeError(f"confidence must be a single number, got {confidence!r}") from exc
+    if minimum > 0.0:
+        ok, rule = minimum <= c < 1.0, f"[{fmt_number(minimum)}, 1)"
+    else:
+        ok, rule = 0.0 < c < 1.0, "(0, 1)"
+    if not ok:
+        raise DomainError(
+            f"confidence must be a fraction in {rule} such as 0.99, got {fmt_number(c)}"
+        )
+    return c

@@ -51,6 +51,7 @@ from numpy.typing import ArrayLike, NDArray
 from scipy import stats
 from scipy.special import xlogy
 
+from errdist._validate import check_confidence
 from errdist._validate import fmt_number as _fmt
 from errdist.errors import DomainError, InputTypeError, InsufficientDataError
 
@@ -202,15 +203,7 @@ def _deprecated(old: str, new: str) -> None:
 # validation helpers
 # --------------------------------------------------------------------------------------------
 def _confidence(confidence: Any) -> float:
-    if isinstance(confidence, (str, bytes, bool)) or confidence is None:
-        raise InputTypeError(f"confidence must be a number, got {confidence!r}")
-    try:
-        c = float(confidence)
-    except (TypeError, ValueError) as exc:
-        raise InputTypeError(f"confidence must be a single number, got {confidence!r}") from exc
-    if not 0.0 < c < 1.0:
-        raise DomainError(f"confidence must be a fraction in (0, 1) such as 0.99, got {_fmt(c)}")
-    return c
+    return check_confidence(confidence)
 
 
 def _count(name: str, value: Any, minimum: int = 0) -> int:

@@ -35,6 +35,13 @@ with ``+`` for xᵢ ≥ m. Write R(m) = Σ_{x>m}(x−m)^b and L(m) = Σ_{x<m}(m�
 There is no starting point: the result depends only on the multiset of data (it is the same
 for any order of the observations). The data are centred on the median and divided by
 their standard deviation first (ℓ changes by −n·ln(spread), added back).
+
+``method="local"`` (rolling refits, hundreds of windows that move a few days at a time):
+the same profile ℓ(m, b), with scale and skew in closed form as above, maximised by
+Nelder-Mead over (m, ln b) from the previous window's fit ``start`` (the profile is not
+smooth in m for b ≤ 1, which rules out gradient methods). It finds the maximum near the
+start, stops at Nelder-Mead's tolerance (1e-8 in the parameters) and certifies nothing: a
+far-away better maximum is not looked for. Without ``start`` it is the exact search.
 """
 
 from __future__ import annotations
@@ -44,12 +51,13 @@ from dataclasses import dataclass
 from typing import Any
 
 import numpy as np
-from scipy.optimize import brentq, minimize_scalar
+from scipy.optimize import brentq, minimize, minimize_scalar
 from scipy.special import gammaln, psi
 
-from errdist.errors import InsufficientDataError
+from errdist.errors import DomainError, InsufficientDataError
 from errdist.estimate import SHAPE_MAX, SHAPE_MIN, clean_sample
 from errdist.law import _skewed_core as _core
+from errdist.law import _skewed_moments as _moments
 
 __all__ = ["SKEW_MAX", "SkewedFit", "fit_skewed"]
 
@@ -98,6 +106,16 @@ class SkewedFit:
     bic: float
     at_bound: bool
     warning: str
+
+    @property
+    def mean(self) -> float:
+        r"""Mean of the fitted law, :math:`m + 2\lambda a\,\Gamma(2/b)/\Gamma(1/b)`."""
+        return float(_moments.mean(self.loc, self.scale, self.shape, self.skew))
+
+    @property
+    def std(self) -> float:
+        """Standard deviation of the fitted law (square root of :func:`variance`)."""
+        return math.sqrt(float(_moments.variance(self.scale, self.shape, self.skew)))
 
 
 class _Sample:
@@ -347,13 +365,46 @@ def _fit_sorted(ys: np.ndarray) -> tuple[float, float, float, float]:
     return m, a, b, lam
 
 
-def fit_skewed(data: Any) -> SkewedFit:
-    """Exact maximum-likelihood fit of the skewed error law.
+def _fit_local(smp: _Sample, m0: float, b0: float) -> tuple[float, float, float, float]:
+    """(m, a, b, λ) of standardised sorted data: Nelder-Mead on the profile ℓ(m, ln b) from
+    (m0, b0); the shape is held in [SHAPE_MIN, SHAPE_MAX] by a quadratic penalty outside."""
+    n = smp.n
+    u_min, u_max = math.log(SHAPE_MIN), math.log(SHAPE_MAX)
+
+    def neg_profile(theta: np.ndarray) -> float:
+        u = min(max(float(theta[1]), u_min), u_max)
+        b = math.exp(u)
+        return -_profile(smp.s_cont(float(theta[0]), b), n, b) + 1e3 * (theta[1] - u) ** 2
+
+    u0 = min(max(math.log(b0), u_min), u_max)
+    res = minimize(
+        neg_profile,
+        np.array([m0, u0]),
+        method="Nelder-Mead",
+        options={"xatol": 1e-8, "fatol": 1e-10, "maxiter": 4000},
+    )
+    m, u = float(res.x[0]), float(res.x[1])
+    b = SHAPE_MIN if u <= u_min else SHAPE_MAX if u >= u_max else math.exp(u)
+    r, lft = smp.rl_at(np.array([m]), b)
+    s_arr, lam_arr = _s_min(r, lft, b)
+    return m, (b * float(s_arr[0]) / n) ** (1.0 / b), b, float(lam_arr[0])
+
+
+def fit_skewed(data: Any, start: SkewedFit | None = None, method: str = "exact") -> SkewedFit:
+    """Maximum-likelihood fit of the skewed error law (exact by default).
 
     Parameters
     ----------
     data : array_like
         Observations (1-D or 2-D, read row-major); NaN / blank entries are dropped.
+    start : SkewedFit, optional
+        A previous fit (e.g. the last window's) to start ``method="local"`` from; the exact
+        search has no starting point and ignores it.
+    method : {"exact", "local"}, default "exact"
+        ``"exact"``: the global maximum (module docstring). ``"local"``: the maximum near
+        ``start`` by Nelder-Mead on the same profile likelihood, about 10-25 times faster,
+        for rolling refits whose windows change little; not certified global. Without
+        ``start`` it runs the exact search.
 
     Returns
     -------
@@ -376,6 +427,8 @@ def fit_skewed(data: Any) -> SkewedFit:
     the order of the data. Many equal values (e.g. unchanged prices) pull the shape down,
     as in the symmetric :func:`errdist.fit`; a shape at the lower bound is flagged.
     """
+    if method not in ("exact", "local"):
+        raise DomainError(f"method must be 'exact' or 'local', got {method!r}")
     x, n_dropped = clean_sample(data, min_count=5)
     n = x.size
     xs = np.sort(x)
@@ -384,7 +437,10 @@ def fit_skewed(data: Any) -> SkewedFit:
     centre = float(np.median(xs))
     spread = float(np.std(xs))
     ys = (xs - centre) / spread
-    m, a, b, lam = _fit_sorted(ys)
+    if method == "local" and start is not None:
+        m, a, b, lam = _fit_local(_Sample(ys), (start.loc - centre) / spread, start.shape)
+    else:
+        m, a, b, lam = _fit_sorted(ys)
     loc = centre + spread * m
     scale = spread * a
     ll = float(np.sum(np.asarray(_core.logpdf(xs, loc, scale, b, lam))))

@@ -23,7 +23,7 @@ from numpy.typing import ArrayLike, NDArray
 from scipy.special import gammaln
 
 from errdist.law import moments as _sym_moments
-from errdist.law._skewed_core import FloatOrArray, _all_zero, _arrays, _out
+from errdist.law._skewed_core import FloatOrArray, _all_zero, _arrays, _out, _scalar_params
 
 
 def _g(k: int, b: NDArray[np.float64]) -> NDArray[np.float64]:
@@ -136,9 +136,13 @@ def standardized_params(
     so :math:`Z = m + aY` has :math:`E Z = 0`, :math:`\operatorname{Var} Z = 1`.
     Skew 0: ``(0.0, (Γ(1/b)/Γ(3/b))**0.5)``.
     """
-    _, _, b, lam = _arrays(0.0, 1.0, shape, skew)
+    if _scalar_params(0.0, 1.0, shape, skew):  # plain scalars, checked: no array set-up
+        b, lam = np.float64(shape), np.float64(skew)  # same ufuncs as 0-d arrays: same bits
+    else:
+        _, _, b, lam = _arrays(0.0, 1.0, shape, skew)
     with np.errstate(over="ignore", invalid="ignore"):
-        a = 1.0 / np.sqrt(_var1(b, lam))
-        m = -2.0 * lam * a * _g(1, b)
+        g1, g2 = _g(1, b), _g(2, b)
+        a = 1.0 / np.sqrt(g2 + lam * lam * (3.0 * g2 - 4.0 * g1 * g1))  # 1/sqrt(_var1(b, lam))
+        m = -2.0 * lam * a * g1
         m = m + 0.0  # -0.0 -> 0.0
     return _out(m), _out(a)

@@ -39,35 +39,83 @@ from numpy.typing import ArrayLike, NDArray
 from scipy.special import gammaincc, gammaln
 
 from errdist._validate import as_float_array, raise_first
-from errdist._validate import fmt_number as _fmt
-from errdist.errors import DomainError, InputTypeError
+from errdist.errors import DomainError
 from errdist.law import _skewed_core as _core
 from errdist.risk import expected_shortfall as _sym_es
+from errdist.risk import measures as _measures
 from errdist.risk import value_at_risk as _sym_var
+from errdist.risk.measures import _out
 
 FloatOrArray = float | NDArray[np.float64]
 
 
 def _check(confidence: Any, horizon: Any, amount: Any) -> tuple[NDArray[np.float64], float, Any]:
-    c = as_float_array("confidence", confidence, strict=False)
-    bad = ~((c > 0.0) & (c < 1.0))
+    """The symmetric law's checks of confidence, horizon (square-root rule) and amount."""
+    return (
+        _measures._check_confidence(confidence),
+        _measures._check_horizon(horizon, "sqrt"),
+        _measures._check_amount(amount),
+    )
+
+
+def _standard_tail(
+    u: NDArray[np.float64], b: NDArray[np.float64], lam: NDArray[np.float64]
+) -> tuple[NDArray[np.float64], NDArray[np.float64], NDArray[np.float64]]:
+    r"""Quantile :math:`t = F_Y^{-1}(u)` of the standard law (m = 0, a = 1), its lower partial
+    mean :math:`E[Y; Y \le t]` and :math:`g_1 = \Gamma(2/b)/\Gamma(1/b)` (module docstring;
+    arguments checked by the caller)."""
+    with np.errstate(over="ignore", invalid="ignore", divide="ignore"):
+        t = np.asarray(_core.ppf(u, 0.0, 1.0, b, lam), dtype=np.float64)
+        g1 = np.exp(gammaln(2.0 / b) - gammaln(1.0 / b))
+        left = t <= 0.0
+        s = np.where(left, 1.0 - lam, 1.0 + lam)
+        z = (np.abs(t) / s) ** b
+        piece = 0.5 * s * s * g1 * gammaincc(2.0 / b, z)
+        tail_sum = np.where(left, -piece, 2.0 * lam * g1 - piece)  # E[Y; Y <= t]
+    return t, tail_sum, g1
+
+
+def lower_tail(
+    p: ArrayLike,
+    loc: ArrayLike = 0.0,
+    scale: ArrayLike = 1.0,
+    shape: ArrayLike = 2.0,
+    skew: ArrayLike = 0.0,
+) -> tuple[FloatOrArray, FloatOrArray]:
+    r"""Quantile and lower tail mean at a lower-tail probability ``p``.
+
+    .. math::
+
+        q = F^{-1}(p) = m + a t, \qquad E[X \mid X \le q] = m + \frac{a}{p} E[Y; Y \le t]
+
+    (closed form in the module docstring), so :math:`\mathrm{VaR} = -q` and
+    :math:`\mathrm{ES} = -E[X \mid X \le q]` at confidence :math:`1 - p`. Taking ``p``
+    itself (not a confidence) keeps full relative accuracy for tiny tail probabilities; this
+    is what a conditional model's forecast law :math:`\mu + \sigma Z` needs.
+
+    Parameters
+    ----------
+    p : array_like
+        Lower-tail probabilities in (0, 1).
+    loc, scale, shape, skew : array_like
+        As in :func:`errdist.law.skewed.pdf`.
+
+    Returns
+    -------
+    (q, tail_mean) : floats, or arrays of the broadcast shape
+    """
+    u = as_float_array("p", p, strict=False)
+    bad = ~((u > 0.0) & (u < 1.0))
     if np.any(bad):
-        raise_first("confidence", c, bad, "a fraction in (0, 1) such as 0.99")
-    if isinstance(horizon, (str, bytes, bool)):
-        raise InputTypeError(f"horizon must be a number of days, got {horizon!r}")
-    h_arr = as_float_array("horizon", horizon, strict=False)
-    if h_arr.ndim != 0:
-        raise InputTypeError("horizon must be a single number of days, got an array")
-    h = float(h_arr)
-    if not (math.isfinite(h) and h >= 1.0):
-        raise DomainError(f"horizon must be >= 1 day, got {_fmt(h)}")
-    amt = None
-    if amount is not None:
-        amt = as_float_array("amount", amount, strict=False)
-        bad = ~(np.isfinite(amt) & (amt > 0.0))
-        if np.any(bad):
-            raise_first("amount", amt, bad, "> 0 (a position value)")
-    return c, h, amt
+        raise_first("p", u, bad, "a probability in (0, 1)")
+    m, a, b, lam = _core._arrays(loc, scale, shape, skew)
+    scalar = all(x.ndim == 0 for x in (u, m, a, b, lam))
+    u, m, a, b, lam = np.broadcast_arrays(u, m, a, b, lam)
+    t, tail_sum, _ = _standard_tail(u, b, lam)
+    with np.errstate(over="ignore", invalid="ignore"):
+        q = m + a * t
+        e = m + a * (tail_sum / u)
+    return _out(np.asarray(q), scalar), _out(np.asarray(e), scalar)
 
 
 def _risk(
@@ -80,13 +128,7 @@ def _risk(
     c, m, a, b, lam = np.broadcast_arrays(c, m, a, b, lam)
     u = 1.0 - c
     with np.errstate(over="ignore", invalid="ignore", divide="ignore"):
-        t = np.asarray(_core.ppf(u, 0.0, 1.0, b, lam), dtype=np.float64)
-        g1 = np.exp(gammaln(2.0 / b) - gammaln(1.0 / b))
-        left = t <= 0.0
-        s = np.where(left, 1.0 - lam, 1.0 + lam)
-        z = (np.abs(t) / s) ** b
-        piece = 0.5 * s * s * g1 * gammaincc(2.0 / b, z)
-        tail_sum = np.where(left, -piece, 2.0 * lam * g1 - piece)  # E[Y; Y <= t]
+        t, tail_sum, g1 = _standard_tail(u, b, lam)
         e = tail_sum / u
         mu = 2.0 * lam * g1  # mean of Y
         root = math.sqrt(h)
@@ -101,10 +143,6 @@ def _risk(
             "amount is too large"
         )
     return np.asarray(var, dtype=np.float64), np.asarray(es, dtype=np.float64), scalar
-
-
-def _out(arr: NDArray[np.float64], scalar: bool) -> FloatOrArray:
-    return float(arr.reshape(-1)[0]) if scalar else arr
 
 
 def value_at_risk(

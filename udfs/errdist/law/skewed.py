@@ -19,6 +19,7 @@ Stable public names (used by the conditional-volatility engine): :func:`pdf`, :f
 :func:`cdf`, :func:`sf`, :func:`logcdf`, :func:`logsf`, :func:`ppf`, :func:`isf`, :func:`rvs`,
 :func:`mean`, :func:`variance`, :func:`skewness`, :func:`excess_kurtosis`,
 :func:`standardized_params`, :func:`value_at_risk`, :func:`expected_shortfall`,
+:func:`lower_tail`,
 :func:`fit_skewed` (-> :class:`SkewedFit`). Reached from the top level as ``errdist.skewed``.
 """
 
@@ -45,7 +46,7 @@ from errdist.law._skewed_moments import (
     standardized_params,
     variance,
 )
-from errdist.law._skewed_risk import expected_shortfall, value_at_risk
+from errdist.law._skewed_risk import expected_shortfall, lower_tail, value_at_risk
 
 __all__ = [
     "SKEW_MAX",
@@ -59,6 +60,7 @@ __all__ = [
     "logcdf",
     "logpdf",
     "logsf",
+    "lower_tail",
     "mean",
     "pdf",
     "ppf",

@@ -17,7 +17,7 @@ their squared returns (about the RiskMetrics "effective number of days" for
 :math:`\lambda = 0.94` at a 1 % tolerance, :math:`\ln 0.01/\ln 0.94 \approx 74`), so no
 variance uses a return on or after its own day. The scaled returns :math:`r_t/\sigma_t` of the
 last ``fit_window`` days are then fitted by the two-piece law with free mean and spread
-(:func:`errdist.risk.skewed_mle.fit_skewed_law`): the forecast law of tomorrow is
+(exact maximum likelihood, :func:`errdist.law.skewed.fit_skewed`): the forecast law of tomorrow is
 :math:`\sigma_{T+1}(\mu_z + s_z Z)`. RiskMetrics itself uses the normal law; the fitted law
 corrects both the tail and any scale bias of the fixed :math:`\lambda`.
 
@@ -60,10 +60,11 @@ import numpy as np
 from numpy.typing import ArrayLike, NDArray
 from scipy import signal
 
+from errdist._validate import check_confidence
 from errdist._validate import fmt_number as _fmt
 from errdist.errors import DomainError, InputTypeError, InsufficientDataError
+from errdist.law.skewed import fit_skewed
 from errdist.risk.innovation_law import lower_tail
-from errdist.risk.skewed_mle import fit_skewed_law
 
 __all__ = [
     "EWMA_LAMBDA",
@@ -150,12 +151,7 @@ class ConditionalFit:
 # input checks
 # --------------------------------------------------------------------------------------------
 def _confidence(confidence: Any) -> float:
-    if isinstance(confidence, (str, bytes, bool)) or confidence is None:
-        raise InputTypeError(f"confidence must be a number, got {confidence!r}")
-    c = float(confidence)
-    if not 0.5 <= c < 1.0:
-        raise DomainError(f"confidence must be a fraction in [0.5, 1) such as 0.99, got {_fmt(c)}")
-    return c
+    return check_confidence(confidence, minimum=0.5)
 
 
 def clean_returns(
@@ -321,7 +317,7 @@ def fit_ewma(
     sig = np.sqrt(s2)
     lo = max(EWMA_SEED_DAYS, r.size - int(fit_window))
     z = r[lo:] / sig[lo:-1]
-    f = fit_skewed_law(z)
+    f = fit_skewed(z)
     vol = float(sig[-1])
     mean, std = vol * f.mean, vol * f.std
     var, es = law_risk(c, mean, std, f.shape, f.skew)

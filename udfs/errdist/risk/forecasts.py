@@ -14,18 +14,20 @@ Models
     (its VaR column is identical).
 ``"skewed"``
     The two-piece law fitted by maximum likelihood to the ``window`` returns before the day,
-    refitted every ``refit`` days (the warm-started search of
-    :func:`errdist.risk.skewed_mle.fit_skewed_law`; see below).
+    refitted every ``refit`` days (the warm-started search
+    ``errdist.law.skewed.fit_skewed(..., start=previous, method="local")``; see below).
 ``"ewma"``
     RiskMetrics EWMA variance (:func:`errdist.risk.conditional.ewma_variance`, daily); the law of
     the scaled returns :math:`r_s/\sigma_s` over the ``fit_window`` days before the refit day,
     refitted every ``refit`` days.
 
-The law fits of "skewed" and "ewma" use the warm-started Nelder-Mead search of
-:func:`errdist.risk.skewed_mle.fit_skewed_law` rather than the exact fit
-:func:`errdist.law.skewed.fit_skewed`: the exact fit takes about 0.06 s at 250 points and
-0.6 s at 1,000, too slow for ~200 refits per model within the command's time budget; the
-search reaches the exact fit's log-likelihood to within 0.01 (tested on real windows).
+The law fits of "skewed" and "ewma" use the warm-started local search of the one skewed-law
+fit, :func:`errdist.law.skewed.fit_skewed` with ``method="local"`` and the previous window's
+fit as ``start`` (the first window gets the exact search): the exact search takes about
+0.15 s at 250 points and 0.55 s at 1,000, too slow for ~200 refits per model within the
+command's time budget. The local search is not certified global: on the arch.data sp500
+windows it falls short of the exact fit in about one refit in seven, by at most about 1
+log-likelihood unit (docs/backtesting.md).
 ``"gjr"`` / ``"garch"``
     GJR-GARCH(1,1) / GARCH(1,1) with the skewed law, estimated by ``arch`` on the
     ``fit_window`` returns before the refit day (warm start from the previous estimate) every
@@ -58,6 +60,7 @@ from scipy import special as sc
 
 from errdist.errors import DomainError, InputTypeError, InsufficientDataError
 from errdist.estimate.mle import _mle_sorted
+from errdist.law.skewed import SkewedFit, fit_skewed
 from errdist.risk.conditional import (
     EWMA_LAMBDA,
     EWMA_SEED_DAYS,
@@ -69,7 +72,6 @@ from errdist.risk.conditional import (
     gjr_model,
     law_risk,
 )
-from errdist.risk.skewed_mle import SkewedLawFit, fit_skewed_law
 
 __all__ = ["MODELS", "ForecastPath", "rolling_forecasts"]
 
@@ -171,11 +173,11 @@ def _blocks(first: int, n: int, refit: int) -> list[tuple[int, int]]:
 def _skewed(r: NDArray[np.float64], first: int, window: int, refit: int, tick: Progress) -> tuple:
     n = r.size
     cols = [np.full(n, np.nan) for _ in range(4)]
-    prev: SkewedLawFit | None = None
+    prev: SkewedFit | None = None
     bounds = 0
     blocks = _blocks(first, n, refit)
     for i, (t0, t1) in enumerate(blocks):
-        f = fit_skewed_law(r[t0 - window : t0], start=prev)
+        f = fit_skewed(r[t0 - window : t0], start=prev, method="local")
         prev = f
         bounds += f.at_bound
         for col, v in zip(cols, (f.mean, f.std, f.shape, f.skew), strict=True):
@@ -192,12 +194,12 @@ def _ewma(
     sig = np.sqrt(ewma_variance(r, lam))[:n]  # sig[t] uses r[:t]
     z = r / sig
     cols = [np.full(n, np.nan) for _ in range(4)]
-    prev: SkewedLawFit | None = None
+    prev: SkewedFit | None = None
     bounds = 0
     blocks = _blocks(first, n, refit)
     for i, (t0, t1) in enumerate(blocks):
         lo = max(EWMA_SEED_DAYS, t0 - fit_window)
-        f = fit_skewed_law(z[lo:t0], start=prev)
+        f = fit_skewed(z[lo:t0], start=prev, method="local")
         prev = f
         bounds += f.at_bound
         cols[0][t0:t1] = sig[t0:t1] * f.mean

@@ -38,9 +38,11 @@ Tails (through the regularized upper incomplete gamma :math:`Q`, never :math:`\t
 (substitute :math:`w = (v/s)^b` in :math:`\int_t^\infty v\,e^{-(v/s)^b}dv =
 \frac{s^2}{b}\Gamma(2/b)Q(2/b,(t/s)^b)`), from which VaR and ES follow in closed form.
 
-This module works on the standardized law only (parameters ``shape``, ``skew``); a forecast
-law in return units is :math:`\mu + \sigma Z`. It is the math the conditional models need;
-the full skewed law with fitting lives in :mod:`errdist.law.skewed` when present.
+This module is a thin layer over :mod:`errdist.law.skewed` (the one implementation of the
+law): each function standardizes once with :func:`errdist.law.skewed.standardized_params` and
+calls that module's ``logpdf``, ``cdf``, ``ppf``, ``lower_tail`` or ``rvs``. It keeps the
+names the conditional models use (parameters ``shape``, ``skew`` of the standardized law); a
+forecast law in return units is :math:`\mu + \sigma Z`.
 
 Source: Fernández, C. & Steel, M.F.J. (1998) "On Bayesian modeling of fat tails and skewness",
 J. American Statistical Association 93(441):359-371.
@@ -48,9 +50,12 @@ J. American Statistical Association 93(441):359-371.
 
 from __future__ import annotations
 
+import functools
+
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
-from scipy import special as sc
+
+from errdist.law import skewed as _law
 
 __all__ = [
     "SHAPE_BOUNDS",
@@ -72,10 +77,17 @@ SKEW_BOUNDS = (-0.99, 0.99)
 Float = float | NDArray[np.float64]
 
 
-def _ratios(shape: Float) -> tuple[Float, Float]:
-    """:math:`r_2 = \\Gamma(2/b)/\\Gamma(1/b)` and :math:`r_3 = \\Gamma(3/b)/\\Gamma(1/b)`."""
-    g1 = sc.gammaln(1.0 / shape)
-    return np.exp(sc.gammaln(2.0 / shape) - g1), np.exp(sc.gammaln(3.0 / shape) - g1)
+def _scalar(v: Float) -> Float:
+    """A 0-d array as a float (the law's scalar fast paths take plain floats)."""
+    return float(v) if isinstance(v, np.ndarray) and v.ndim == 0 else v
+
+
+@functools.lru_cache(maxsize=16)
+def _params_of_floats(shape: float, skew: float) -> tuple[float, float]:
+    """:func:`errdist.law.skewed.standardized_params` remembered for recent float pairs: in an
+    ``arch`` fit most likelihood calls (the numerical gradient's steps in the volatility
+    parameters) repeat the law's shape and skew."""
+    return _law.standardized_params(shape, skew)  # type: ignore[return-value]
 
 
 def standardized_params(shape: Float, skew: Float) -> tuple[Float, Float]:
@@ -95,24 +107,27 @@ def standardized_params(shape: Float, skew: Float) -> tuple[Float, Float]:
     Returns
     -------
     (mode, scale)
+        :func:`errdist.law.skewed.standardized_params`.
     """
-    r2, r3 = _ratios(shape)
-    lam2 = skew * skew
-    scale = 1.0 / np.sqrt(r3 * (1.0 + 3.0 * lam2) - 4.0 * lam2 * r2 * r2)
-    return -2.0 * skew * scale * r2, scale
+    return _law.standardized_params(_scalar(shape), _scalar(skew))
 
 
 def standardized_logpdf(z: ArrayLike, shape: float, skew: float) -> NDArray[np.float64]:
     r"""Log density of the standardized law at ``z``.
 
-    :math:`\ln b - \ln 2 - \ln a - \ln\Gamma(1/b) - (|z-m|/(a(1+\lambda\,\mathrm{sign}(z-m))))^b`.
+    :math:`\ln b - \ln 2 - \ln a - \ln\Gamma(1/b) - (|z-m|/(a(1+\lambda\,\mathrm{sign}(z-m))))^b`
+    (:func:`errdist.law.skewed.logpdf`; scalar ``shape``/``skew`` with a float array ``z``
+    take that function's fast path, which ``arch``'s likelihood loop relies on).
     """
-    m, a = standardized_params(shape, skew)
-    z = np.asarray(z, dtype=float)
-    d = z - m
-    s = a * np.where(d < 0.0, 1.0 - skew, 1.0 + skew)
-    const = np.log(shape) - np.log(2.0) - np.log(a) - sc.gammaln(1.0 / shape)
-    return const - (np.abs(d) / s) ** shape
+    shape, skew = _scalar(shape), _scalar(skew)
+    m, a = (
+        _params_of_floats(shape, skew)
+        if type(shape) is type(skew) is float
+        else (_law.standardized_params(shape, skew))
+    )
+    if not isinstance(z, np.ndarray) or z.dtype != np.float64:
+        z = np.asarray(z, dtype=float)
+    return np.asarray(_law.logpdf(z, m, a, shape, skew))
 
 
 def standardized_cdf(z: ArrayLike, shape: Float, skew: Float) -> NDArray[np.float64]:
@@ -120,38 +135,22 @@ def standardized_cdf(z: ArrayLike, shape: Float, skew: Float) -> NDArray[np.floa
 
     :math:`F(z) = \frac{1-\lambda}{2} Q(1/b, (\frac{m-z}{a(1-\lambda)})^b)` for
     :math:`z < m`, :math:`1 - \frac{1+\lambda}{2} Q(1/b, (\frac{z-m}{a(1+\lambda)})^b)`
-    otherwise.
+    otherwise (:func:`errdist.law.skewed.cdf`).
     """
-    z = np.asarray(z, dtype=float)
-    shape = np.asarray(shape, dtype=float)
-    skew = np.asarray(skew, dtype=float)
-    m, a = standardized_params(shape, skew)
-    d = z - m
-    left = d < 0
-    s = a * np.where(left, 1.0 - skew, 1.0 + skew)
-    tail = sc.gammaincc(1.0 / shape, (np.abs(d) / s) ** shape)
-    return np.where(left, 0.5 * (1.0 - skew) * tail, 1.0 - 0.5 * (1.0 + skew) * tail)
+    shape, skew = _scalar(shape), _scalar(skew)
+    m, a = _law.standardized_params(shape, skew)
+    return np.asarray(_law.cdf(np.asarray(z, dtype=float), m, a, shape, skew))
 
 
 def standardized_ppf(u: Float, shape: Float, skew: Float) -> Float:
-    r"""Quantile of the standardized law.
+    r"""Quantile of the standardized law (:func:`errdist.law.skewed.ppf`).
 
     For :math:`u \le (1-\lambda)/2`: :math:`m - a(1-\lambda)\,[Q^{-1}(1/b,\ 2u/(1-\lambda))]^{1/b}`;
     otherwise :math:`m + a(1+\lambda)\,[Q^{-1}(1/b,\ 2(1-u)/(1+\lambda))]^{1/b}`.
     """
-    u = np.asarray(u, dtype=float)
-    shape = np.asarray(shape, dtype=float)
-    skew = np.asarray(skew, dtype=float)
-    m, a = standardized_params(shape, skew)
-    wl = 0.5 * (1.0 - skew)
-    lower = u <= wl
-    with np.errstate(divide="ignore", invalid="ignore"):
-        pl = np.clip(np.where(lower, u / wl, 1.0), 0.0, 1.0)
-        pr = np.clip(np.where(lower, 1.0, (1.0 - u) / (1.0 - wl)), 0.0, 1.0)
-        zl = m - a * (1.0 - skew) * sc.gammainccinv(1.0 / shape, pl) ** (1.0 / shape)
-        zr = m + a * (1.0 + skew) * sc.gammainccinv(1.0 / shape, pr) ** (1.0 / shape)
-    out = np.where(lower, zl, zr)
-    return float(out) if out.ndim == 0 else out
+    shape, skew = _scalar(shape), _scalar(skew)
+    m, a = _law.standardized_params(shape, skew)
+    return _law.ppf(_scalar(np.asarray(u, dtype=float)), m, a, shape, skew)
 
 
 def lower_tail(u: Float, shape: Float, skew: Float) -> tuple[Float, Float]:
@@ -159,42 +158,21 @@ def lower_tail(u: Float, shape: Float, skew: Float) -> tuple[Float, Float]:
 
     Returns ``(q, e)`` with :math:`q = F^{-1}(u)` and :math:`e = E[Z \mid Z \le q]`, so the
     VaR at confidence :math:`c = 1-u` of :math:`\mu + \sigma Z` is :math:`-(\mu + \sigma q)`
-    and its Expected Shortfall :math:`-(\mu + \sigma e)` (formulas in the module docstring;
-    for :math:`q > m` the upper partial mean is subtracted from the mean 0).
+    and its Expected Shortfall :math:`-(\mu + \sigma e)` (closed form in
+    :func:`errdist.law.skewed.lower_tail`).
     """
-    u = np.asarray(u, dtype=float)
-    shape = np.asarray(shape, dtype=float)
-    skew = np.asarray(skew, dtype=float)
-    q = np.asarray(standardized_ppf(u, shape, skew))
-    m, a = standardized_params(shape, skew)
-    r2, _ = _ratios(shape)
-    below = q <= m
-    sl = a * (1.0 - skew)
-    sr = a * (1.0 + skew)
-    zl = (np.maximum(m - q, 0.0) / sl) ** shape
-    zr = (np.maximum(q - m, 0.0) / sr) ** shape
-    partial_low = m * u - 0.5 * sl * (1.0 - skew) * r2 * sc.gammaincc(2.0 / shape, zl)
-    # E[Z; Z > q] for q > m; the mean of Z is 0.
-    partial_high = m * (1.0 - u) + 0.5 * sr * (1.0 + skew) * r2 * sc.gammaincc(2.0 / shape, zr)
-    e = np.where(below, partial_low, -partial_high) / u
-    if q.ndim == 0:
-        return float(q), float(e)
-    return q, e
+    shape, skew = _scalar(shape), _scalar(skew)
+    m, a = _law.standardized_params(shape, skew)
+    return _law.lower_tail(u, m, a, shape, skew)
 
 
 def rvs(
     shape: Float, skew: Float, size: int | tuple[int, ...], rng: np.random.Generator
 ) -> NDArray[np.float64]:
-    r"""Draws of the standardized law.
+    r"""Draws of the standardized law (:func:`errdist.law.skewed.rvs`, drawing from ``rng``).
 
-    A piece is chosen (left with probability :math:`(1-\lambda)/2`), then
-    :math:`|Z - m| = s\,G^{1/b}` with :math:`G \sim \mathrm{Gamma}(1/b)` and :math:`s` the
-    piece's scale (the error law's magnitude is a gamma variable to the power :math:`1/b`).
     ``shape``/``skew`` broadcast against ``size``.
     """
-    shape = np.broadcast_to(np.asarray(shape, dtype=float), size)
-    skew = np.broadcast_to(np.asarray(skew, dtype=float), size)
-    m, a = standardized_params(shape, skew)
-    g = rng.standard_gamma(1.0 / shape) ** (1.0 / shape)
-    left = rng.random(size) < 0.5 * (1.0 - skew)
-    return m + np.where(left, -a * (1.0 - skew), a * (1.0 + skew)) * g
+    shape, skew = _scalar(shape), _scalar(skew)
+    m, a = _law.standardized_params(shape, skew)
+    return np.asarray(_law.rvs(size, m, a, shape, skew, seed=rng))
