@@ -197,7 +197,8 @@ def build_parser() -> argparse.ArgumentParser:
     add_backtest(sub)
 
     vba = sub.add_parser("vba", help="write the VBA module (.bas) for manual import")
-    vba.add_argument("--out", default=None, help="file to write (default: standard output)")
+    vba.add_argument("--out", default=None, help="file to write, .bas (default: standard output)")
+    vba.add_argument("--force", action="store_true", help="overwrite an existing file")
     vba.set_defaults(func=_dispatch("errdist.sheet.vba", "main"))
 
     version = sub.add_parser("version", help="print versions for audit trails")
