@@ -13,18 +13,33 @@ Sub-commands dispatch to the modules that own the work:
   (``errdist.libreoffice.commands.run``)
 - ``errdist version``  versions, for audit trails
 
-Errors in the user's input are printed as one line on standard error with exit code 2; no
-traceback is shown for them.
+Exit codes (the same for every sub-command; docs/security-and-limits.md):
+
+- 0  done (``check``: every formula cell matches);
+- 1  ``check``: some cells differ or cannot be recomputed; ``refresh``: the workbook was
+  written but its headline figures could not be computed (n/a);
+- 4  ``check``: formulas differ from the template's (5: values and formulas differ);
+- 2  the input cannot be read or is refused (bad arguments, missing/unsafe/damaged file,
+  bad data, a limit exceeded): one line on standard error, nothing written;
+- 70 an internal error (a defect of errdist): one line on standard error; set
+  ``ERRDIST_DEBUG=1`` to see the traceback;
+- 130 interrupted (Ctrl+C); 143 terminated (SIGTERM); temporary files are removed.
 """
 
 from __future__ import annotations
 
 import argparse
 import importlib
+import os
 import sys
 from collections.abc import Callable, Sequence
 
 from errdist import __version__
+
+EXIT_OK = 0
+EXIT_DIFFERS = 1
+EXIT_CANNOT_READ = 2
+EXIT_INTERNAL = 70  # EX_SOFTWARE of sysexits.h
 
 
 def _dispatch(module: str, function: str) -> Callable[[argparse.Namespace], int]:
@@ -226,7 +241,7 @@ def main(argv: Sequence[str] | None = None) -> int:
         return args.func(args)
     except (ValueError, OSError) as exc:
         print(f"errdist {args.command}: {exc}", file=sys.stderr)
-        return 2
+        return EXIT_CANNOT_READ
     except ImportError as exc:
         missing = _missing_headless(exc)
         if missing is None:
@@ -240,6 +255,15 @@ def main(argv: Sequence[str] | None = None) -> int:
     except KeyboardInterrupt:
         print("errdist: interrupted; nothing written", file=sys.stderr)
         return 130
+    except Exception as exc:  # a defect: say so in one line, keep exit code 1 for "differs"
+        if os.environ.get("ERRDIST_DEBUG"):
+            raise
+        print(
+            f"errdist {args.command}: internal error ({type(exc).__name__}: {exc}); nothing "
+            "written. Please report it; ERRDIST_DEBUG=1 shows the traceback",
+            file=sys.stderr,
+        )
+        return EXIT_INTERNAL
 
 
 if __name__ == "__main__":

@@ -317,10 +317,16 @@ def run_check(args: argparse.Namespace) -> int:
     extra = len(report.mismatches) - MAX_LISTED
     if extra > 0:
         print(f"... and {extra} more")
-    print(
-        f"{len(report.mismatches):,} of {report.cells:,} formula cells differ or cannot be "
-        f"recomputed (relative tolerance {tolerance:g}; recomputed by {report.engine})"
-    )
+    if report.cells:
+        print(
+            f"{len(report.mismatches):,} of {report.cells:,} formula cells differ or cannot be "
+            f"recomputed (relative tolerance {tolerance:g}; recomputed by {report.engine})"
+        )
+    else:
+        print(
+            f"{len(report.mismatches):,} formula cell(s) or name(s) cannot be recomputed; "
+            "nothing was computed"
+        )
     return code | EXIT_VALUES
 
 
