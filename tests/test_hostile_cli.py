@@ -45,3 +45,28 @@ def test_vba_refuses_a_folder(tmp_path: Path, capsys: pytest.CaptureFixture) -> 
     assert vba.main(argparse.Namespace(out=str(folder), force=True)) == 2
     assert "is a folder" in capsys.readouterr().err
     assert folder.is_dir()
+
+
+def test_ragged_range_is_refused_not_reflowed() -> None:
+    # [[1, 2], [3], [4, 5, 6]] holds 6 values = 3 rows x 2: it used to be re-flowed silently.
+    from errdist.sheet.cells import SheetError, as_data
+
+    with pytest.raises(SheetError, match="row 2 has 1"):
+        as_data([[1.0, 2.0], [3.0], [4.0, 5.0, 6.0]], "data")
+    with pytest.raises(SheetError, match="different lengths"):
+        as_data([[1.0, 2.0], 3.0, [4.0, 5.0]], "data")
+
+
+@pytest.mark.parametrize("code", ["#N/A", "#DIV/0!", "#REF!", "#NAME?", "#NULL!"])
+def test_input_error_code_passes_through(code: str) -> None:
+    # Built-in functions pass an input's error value through (=ABS(NA()) is #N/A; common
+    # practice, no source); errdist used to turn every one into #VALUE!.
+    from errdist.sheet.catalog import evaluate
+    from errdist.sheet.cells import SheetError
+
+    with pytest.raises(SheetError) as info:
+        evaluate("ERRDIST_CDF", code, 0.0, 1.0, 2.0)
+    assert info.value.code == code
+    with pytest.raises(SheetError) as info:
+        evaluate("ERRDIST_FIT", [[0.01], [code], [0.02]])
+    assert info.value.code == code
