@@ -29,12 +29,15 @@ Exit codes (the same for every sub-command; docs/security-and-limits.md):
 from __future__ import annotations
 
 import argparse
+import contextlib
 import importlib
 import os
+import signal
 import sys
-from collections.abc import Callable, Sequence
+import threading
+from collections.abc import Callable, Iterator, Sequence
 
-from errdist import __version__
+from errdist import __version__, _tempfiles
 
 EXIT_OK = 0
 EXIT_DIFFERS = 1
@@ -221,6 +224,28 @@ def build_parser() -> argparse.ArgumentParser:
     return parser
 
 
+class _Terminated(BaseException):
+    """SIGTERM arrived: unwind (removing temporary files) and exit with code 143."""
+
+
+@contextlib.contextmanager
+def _terminate_cleanly() -> Iterator[None]:
+    """Turn SIGTERM into :class:`_Terminated` while a command runs, so every ``finally`` and
+    temporary folder is cleaned up (the default action kills the process on the spot)."""
+    if threading.current_thread() is not threading.main_thread():
+        yield
+        return
+
+    def handler(signum: int, frame: object) -> None:
+        raise _Terminated
+
+    previous = signal.signal(signal.SIGTERM, handler)
+    try:
+        yield
+    finally:
+        signal.signal(signal.SIGTERM, previous)
+
+
 def main(argv: Sequence[str] | None = None) -> int:
     """Entry point of the ``errdist`` command; returns the exit code."""
     parser = build_parser()
@@ -238,7 +263,11 @@ def main(argv: Sequence[str] | None = None) -> int:
             )
             return 2
     try:
-        return args.func(args)
+        with _terminate_cleanly(), _tempfiles.run_folder():
+            return args.func(args)
+    except _Terminated:
+        print("errdist: terminated; nothing written", file=sys.stderr)
+        return 143
     except (ValueError, OSError) as exc:
         print(f"errdist {args.command}: {exc}", file=sys.stderr)
         return EXIT_CANNOT_READ

@@ -6,6 +6,8 @@ import os
 import tempfile
 from pathlib import Path
 
+from errdist import _tempfiles
+
 __all__ = ["replace_text"]
 
 
@@ -31,7 +33,10 @@ def replace_text(
     fails with ``FileExistsError`` when ``path`` exists, even if it appeared meanwhile). On any
     error the temporary file is removed and ``path`` is left as it was; the error propagates.
     """
-    fd, tmp = tempfile.mkstemp(prefix=prefix, suffix=".tmp", dir=path.parent)
+    _tempfiles.sweep(path.parent)
+    fd, tmp = tempfile.mkstemp(
+        prefix=_tempfiles.sibling_prefix(path.name), suffix=".tmp", dir=path.parent
+    )
     try:
         with os.fdopen(fd, "w", encoding=encoding, newline=newline) as fh:
             fh.write(text)
