@@ -70,3 +70,49 @@ def test_input_error_code_passes_through(code: str) -> None:
     with pytest.raises(SheetError) as info:
         evaluate("ERRDIST_FIT", [[0.01], [code], [0.02]])
     assert info.value.code == code
+
+
+def test_kurtosis_and_std_of_extreme_magnitudes() -> None:
+    # scipy.stats.kurtosis(bias=False) is KURT (Joanes & Gill 1998, G2); it is scale-free, so
+    # data x 1e300 and x 1e-300 must give the value scipy gives for x itself.
+    import numpy as np
+    from scipy import stats
+
+    from errdist.estimate.sample_stats import sample_excess_kurtosis, sample_std
+
+    x = np.random.default_rng(3).standard_t(5, 400)
+    ref = stats.kurtosis(x, bias=False)
+    for factor in (1e300, 1e-300, 2.0**-1070 * 2**40):
+        assert sample_excess_kurtosis(x * factor) == pytest.approx(ref, rel=1e-12)
+    assert sample_std(x * 1e-300) == pytest.approx(np.std(x, ddof=1) * 1e-300, rel=1e-13)
+    assert sample_std(x * 1e300) == pytest.approx(np.std(x, ddof=1) * 1e300, rel=1e-13)
+
+
+def test_fit_and_compare_of_tiny_and_huge_data() -> None:
+    import numpy as np
+    from scipy import stats
+
+    import errdist
+    from errdist.checks.rivals import compare
+
+    x = np.random.default_rng(4).standard_t(5, 400) * 0.01
+    # scipy.stats.norm.fit is the normal MLE (mean, divisor-n sd): the reference for the
+    # normal row, at any magnitude.
+    loc, sd = stats.norm.fit(x)
+    for factor in (1e-300, 1e-100, 1e300):
+        table = compare(x * factor).set_index("law")
+        assert table.loc["normal", "scale"] == pytest.approx(sd * factor, rel=1e-12)
+        assert np.isfinite(table["loglik"]).all()
+        f = errdist.fit(x * factor)  # used to raise ZeroDivisionError at 1e-100
+        # scipy.stats.gennorm.fit (generic MLE) on the unscaled data, scaled: same shape
+        b, _, a = stats.gennorm.fit(x)
+        assert f.shape == pytest.approx(b, rel=2e-3)
+        assert f.scale == pytest.approx(a * factor, rel=2e-3)
+    # one 1e300 outlier used to make COMPARE say "no spread": now a table, the heavy-tailed
+    # laws first, the generalized normal flagged at its bound
+    y = x.copy()
+    y[7] = 1e300
+    table = compare(y)
+    assert list(table["law"][:2]) == ["Student t", "Cauchy"]
+    assert np.isfinite(table["loglik"]).all()
+    assert bool(table.set_index("law").loc["generalized normal", "at_bound"])
