@@ -116,3 +116,27 @@ def test_fit_and_compare_of_tiny_and_huge_data() -> None:
     assert list(table["law"][:2]) == ["Student t", "Cauchy"]
     assert np.isfinite(table["loglik"]).all()
     assert bool(table.set_index("law").loc["generalized normal", "at_bound"])
+
+
+def test_refresh_summary_with_na_figures_is_not_success() -> None:
+    # refresh used to exit 0 when every figure was n/a; the figures it checks are the ones
+    # format_summary prints (fits, 99% VaR and ES).
+    from errdist.workbook.commands import missing_figures
+
+    ok = {
+        "moments": {"loc": 0.0, "scale": 0.01, "shape": 1.2},
+        "mle": {"loc": 0.0, "scale": 0.01, "shape": 1.1},
+        "var99": 0.03,
+        "es99": 0.04,
+    }
+    assert missing_figures(ok) == []
+    assert missing_figures({}) == [
+        "the moments fit",
+        "the MLE fit",
+        "the 99% VaR",
+        "the 99% ES",
+    ]
+    assert missing_figures({**ok, "var99": "#N/A", "es99": float("nan")}) == [
+        "the 99% VaR",
+        "the 99% ES",
+    ]

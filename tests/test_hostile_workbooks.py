@@ -144,3 +144,26 @@ def test_unreadable_book_exit_code_differs_from_differs_code(tmp_path: Path) -> 
     )
     assert run.returncode == 2
     assert "not well-formed" in run.stderr and "Traceback" not in run.stderr
+
+
+def test_spill_collapsed_to_one_error_stores_blanks_not_zeros(tmp_path: Path) -> None:
+    # A dynamic-array result that is one error shows the error in the anchor and blanks
+    # elsewhere (what a dynamic-array spreadsheet shows, common practice, no source). Refresh
+    # used to store 0 in the other cells, so its own workbook then failed `errdist check`.
+    from errdist.workbook.layout import Plan
+    from errdist.workbook.writer import write_plan
+
+    plan = Plan(title="t")
+    sheet = plan.add_sheet("S")
+    sheet.number("A1", 1.0)
+    sheet.number("A2", 2.0)
+    sheet.spill("B1", 2, 2, '=ERRDIST_FIT(A1:A2,"mle")')  # 2 numbers: #N/A for the whole
+    values = engine.evaluate_details(write_plan(plan, tmp_path / "first.xlsx")).values
+    assert values[("S", "B1")] == "#N/A" and values[("S", "C2")] is None
+    book = write_plan(plan, tmp_path / "book.xlsx", values)
+    from errdist.workbook.check import check_workbook, stored_values
+
+    stored = stored_values(book)
+    assert stored[("S", "B1")] == "#N/A"
+    assert ("S", "C2") not in stored and ("S", "B2") not in stored  # blank, not 0
+    assert check_workbook(book) == []
