@@ -66,3 +66,18 @@ def test_convolution_grid_limit_is_a_clear_domain_error(monkeypatch: pytest.Monk
     assert info.value.code == "#NUM!" and "limit" in info.value.message
     horizon._CACHE.clear()
     assert np.isfinite(value_at_risk(0.99, 0.0, 1.0, 0.5, 10, horizon_rule="iid"))
+
+
+def test_prices_row_limit_names_the_variable(tmp_path, monkeypatch: pytest.MonkeyPatch) -> None:
+    from errdist.data.prices_io import read_prices
+    from errdist.errors import InputTypeError
+
+    sp500 = pytest.importorskip("arch.data.sp500")  # real closes (arch.data)
+    s = sp500.load()["Adj Close"].iloc[-200:]
+    p = tmp_path / "p.csv"
+    p.write_text("date,price\n" + "".join(f"{d:%Y-%m-%d},{v!r}\n" for d, v in s.items()))
+    monkeypatch.setenv("ERRDIST_MAX_PRICE_ROWS", "150")
+    with pytest.raises(InputTypeError, match="200 data rows.*ERRDIST_MAX_PRICE_ROWS=200"):
+        read_prices(p)
+    monkeypatch.setenv("ERRDIST_MAX_PRICE_ROWS", "200")
+    assert len(read_prices(p)) == 200

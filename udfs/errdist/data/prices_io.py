@@ -65,6 +65,12 @@ MAX_CSV_BYTES = 50 * 1024 * 1024
 PRICE_NAMES = ("price", "adj close", "adj_close", "adjusted close", "close", "nav", "value")
 """Header names preferred for the price column when several columns hold numbers."""
 
+MAX_PRICE_ROWS = 20_000
+"""Most data rows read from a prices file (80 years of trading days); environment variable
+``ERRDIST_MAX_PRICE_ROWS`` raises it. The refresh's workbook holds every return in its sheets,
+and its work grows with them (a 200,000-row file took 4 minutes); trim the file to the
+history the risk policy asks for, or raise the limit."""
+
 MAX_AS_OF_GAP_DAYS = 10
 """Most calendar days ``as_of`` may fall after the file's last date: weekends and holiday
 closures leave gaps of a few days (common practice, no source); a longer gap means the file
@@ -523,6 +529,13 @@ def read_prices(
         raise InputTypeError(f"{p}: old .xls workbooks are not read; save as .xlsx or CSV")
     else:
         raise InputTypeError(f"{p}: expected a .csv or .xlsx file")
+    limit = safety.env_limit("ERRDIST_MAX_PRICE_ROWS", MAX_PRICE_ROWS)
+    if len(table.rows) > limit:
+        raise InputTypeError(
+            f"{p}: {len(table.rows):,} data rows, more than the limit of {limit:,}; keep the "
+            "history the risk policy asks for, or raise the limit with the environment "
+            f"variable ERRDIST_MAX_PRICE_ROWS={len(table.rows)}"
+        )
     if not table.rows:
         raise InsufficientDataError(f"{p}: no data rows under the header")
 
