@@ -65,10 +65,11 @@ MAX_CSV_BYTES = 50 * 1024 * 1024
 PRICE_NAMES = ("price", "adj close", "adj_close", "adjusted close", "close", "nav", "value")
 """Header names preferred for the price column when several columns hold numbers."""
 
-MAX_PRICE_ROWS = 20_000
-"""Most data rows read from a prices file (80 years of trading days); environment variable
+MAX_PRICE_ROWS = 10_000
+"""Most data rows read from a prices file (40 years of trading days); environment variable
 ``ERRDIST_MAX_PRICE_ROWS`` raises it. The refresh's workbook holds every return in its sheets,
-and its work grows with them (a 200,000-row file took 4 minutes); trim the file to the
+and its work grows with them (20,000 rows: 5 min and 0.7 GB on the reference machine);
+trim the file to the
 history the risk policy asks for, or raise the limit."""
 
 MAX_AS_OF_GAP_DAYS = 10
