@@ -142,3 +142,12 @@ def test_million_row_column_is_converted() -> None:
     rows = [[0.01 * (i % 7 - 3)] for i in range(500)] + rows[500:]
     arr = cells.as_data(rows, "data")
     assert arr.shape == (500, 1)
+
+
+def test_numpy_floating_point_warnings_are_num_errors() -> None:
+    # numpy's overflow / divide warnings (raised as errors inside a call) are numbers out of
+    # range: #NUM!, like the spreadsheet's =EXP(1000) (common practice, no source)
+    err = cells.sheet_error(RuntimeWarning("overflow encountered in power"))
+    assert err.text.startswith("#NUM! numeric overflow")
+    assert cells.sheet_error(RuntimeWarning("divide by zero encountered")).code == "#NUM!"
+    assert "internal error" in cells.sheet_error(RuntimeWarning("something else")).text

@@ -173,6 +173,10 @@ def sheet_error(exc: BaseException) -> SheetError:
         return SheetError(code, message)
     if isinstance(exc, ValueError):
         return SheetError("#NUM!", message)
+    if isinstance(exc, RuntimeWarning) and any(
+        w in message for w in ("overflow", "divide by zero", "underflow")
+    ):  # numpy's floating-point warnings, raised as errors while a function runs
+        exc = OverflowError(message) if "divide" not in message else ZeroDivisionError(message)
     if isinstance(exc, ArithmeticError):  # overflow, division by zero: out of double range
         what = {"ZeroDivisionError": "division by zero", "OverflowError": "numeric overflow"}
         kind = what.get(type(exc).__name__, "floating-point error")
