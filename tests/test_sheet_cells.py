@@ -23,8 +23,14 @@ def test_error_classes_map_to_codes() -> None:
     assert cells.sheet_error(InsufficientDataError("need 4")).code == "#N/A"
     assert cells.sheet_error(InputTypeError("text")).code == "#VALUE!"
     assert cells.sheet_error(ValueError("plain")).code == "#NUM!"
+    # Overflow and division by zero are numbers out of range: #NUM!, as the spreadsheet
+    # reports =EXP(1000) (common practice, no source).
     err = cells.sheet_error(ZeroDivisionError("float division by zero"))
-    assert err.text == "#VALUE! internal error: ZeroDivisionError: float division by zero"
+    assert err.text.startswith("#NUM! division by zero")
+    assert cells.sheet_error(OverflowError("math range error")).text.startswith(
+        "#NUM! numeric overflow"
+    )
+    assert cells.sheet_error(KeyError("x")).text.startswith("#VALUE! internal error: KeyError")
 
 
 def test_long_and_multiline_messages_stay_short() -> None:
@@ -62,12 +68,16 @@ def test_number_scalar_and_range() -> None:
     [
         (None, "#VALUE! x is blank; a number is needed"),
         ("abc", "#VALUE! x is text 'abc'; a number is needed"),
-        ("#DIV/0!", "#VALUE! x is an error value #DIV/0!; a number is needed"),
-        (NA_CODE, "#VALUE! x is an error value #N/A; a number is needed"),
+        # an input's error value passes through, as in built-ins (common practice, no source)
+        ("#DIV/0!", "#DIV/0! x is an error value #DIV/0!; a number is needed"),
+        (NA_CODE, "#N/A x is an error value #N/A; a number is needed"),
         (True, "#VALUE! x is a logical value TRUE; a number is needed"),
         ([[1.0], ["n/a"]], "#VALUE! cell 2 of x is text 'n/a'"),
-        ([[1.0], [NA_CODE]], "#VALUE! cell 2 of x is an error value #N/A"),
-        ([[1.0, 2.0], [3.0]], "#VALUE! x has rows of different lengths"),
+        ([[1.0], [NA_CODE]], "#N/A cell 2 of x is an error value #N/A"),
+        (
+            [[1.0, 2.0], [3.0]],
+            "#VALUE! x has rows of different lengths: row 1 has 2 cells, row 2 has 1",
+        ),
         ([], "#VALUE! x is an empty range"),
     ],
 )
@@ -132,3 +142,12 @@ def test_million_row_column_is_converted() -> None:
     rows = [[0.01 * (i % 7 - 3)] for i in range(500)] + rows[500:]
     arr = cells.as_data(rows, "data")
     assert arr.shape == (500, 1)
+
+
+def test_numpy_floating_point_warnings_are_num_errors() -> None:
+    # numpy's overflow / divide warnings (raised as errors inside a call) are numbers out of
+    # range: #NUM!, like the spreadsheet's =EXP(1000) (common practice, no source)
+    err = cells.sheet_error(RuntimeWarning("overflow encountered in power"))
+    assert err.text.startswith("#NUM! numeric overflow")
+    assert cells.sheet_error(RuntimeWarning("divide by zero encountered")).code == "#NUM!"
+    assert "internal error" in cells.sheet_error(RuntimeWarning("something else")).text

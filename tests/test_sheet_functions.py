@@ -100,7 +100,7 @@ def test_out_of_domain_element_shows_in_its_own_cell(xl: Any) -> None:
         ((0.5, 0.0, -1.0, 2.0), "#NUM! scale must be > 0"),
         ((0.5, 0.0, 1.0, 0.0), "#NUM! shape must be > 0"),
         ((0.5, 0.0, 1.0, "two"), "#VALUE! shape is text 'two'"),
-        ((0.5, 0.0, h.ErrorValue("#N/A"), 2.0), "#VALUE! scale is an error value #N/A"),
+        ((0.5, 0.0, h.ErrorValue("#N/A"), 2.0), "#N/A scale is an error value #N/A"),
     ],
 )
 def test_bad_scalars_give_coded_text(xl: Any, args: tuple, code: str) -> None:

@@ -141,7 +141,7 @@ def test_error_cells_arrive_as_error_text_not_blank(xl: Any) -> None:
     # Without err_to_str xlwings turns error cells into None (blank) - _xlwindows.py
     # _clean_value_data_element; the decoration must keep them visible.
     got = xl.cells("ERRDIST_PDF", h.column([0.1, h.ErrorValue("#DIV/0!")]), 0.0, 1.0, 2.0)
-    assert got == [["#VALUE! cell 2 of x is an error value #DIV/0!"]]
+    assert got == [["#DIV/0! cell 2 of x is an error value #DIV/0!"]]
 
 
 def test_column_and_row_keep_their_orientation(xl: Any) -> None:

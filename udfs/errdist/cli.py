@@ -13,18 +13,36 @@ Sub-commands dispatch to the modules that own the work:
   (``errdist.libreoffice.commands.run``)
 - ``errdist version``  versions, for audit trails
 
-Errors in the user's input are printed as one line on standard error with exit code 2; no
-traceback is shown for them.
+Exit codes (the same for every sub-command; docs/security-and-limits.md):
+
+- 0  done (``check``: every formula cell matches);
+- 1  ``check``: some cells differ or cannot be recomputed; ``refresh``: the workbook was
+  written but its headline figures could not be computed (n/a);
+- 4  ``check``: formulas differ from the template's (5: values and formulas differ);
+- 2  the input cannot be read or is refused (bad arguments, missing/unsafe/damaged file,
+  bad data, a limit exceeded): one line on standard error, nothing written;
+- 70 an internal error (a defect of errdist): one line on standard error; set
+  ``ERRDIST_DEBUG=1`` to see the traceback;
+- 130 interrupted (Ctrl+C); 143 terminated (SIGTERM); temporary files are removed.
 """
 
 from __future__ import annotations
 
 import argparse
+import contextlib
 import importlib
+import os
+import signal
 import sys
-from collections.abc import Callable, Sequence
+import threading
+from collections.abc import Callable, Iterator, Sequence
 
-from errdist import __version__
+from errdist import __version__, _tempfiles
+
+EXIT_OK = 0
+EXIT_DIFFERS = 1
+EXIT_CANNOT_READ = 2
+EXIT_INTERNAL = 70  # EX_SOFTWARE of sysexits.h
 
 
 def _dispatch(module: str, function: str) -> Callable[[argparse.Namespace], int]:
@@ -197,12 +215,35 @@ def build_parser() -> argparse.ArgumentParser:
     add_backtest(sub)
 
     vba = sub.add_parser("vba", help="write the VBA module (.bas) for manual import")
-    vba.add_argument("--out", default=None, help="file to write (default: standard output)")
+    vba.add_argument("--out", default=None, help="file to write, .bas (default: standard output)")
+    vba.add_argument("--force", action="store_true", help="overwrite an existing file")
     vba.set_defaults(func=_dispatch("errdist.sheet.vba", "main"))
 
     version = sub.add_parser("version", help="print versions for audit trails")
     version.set_defaults(func=_run_version)
     return parser
+
+
+class _Terminated(BaseException):
+    """SIGTERM arrived: unwind (removing temporary files) and exit with code 143."""
+
+
+@contextlib.contextmanager
+def _terminate_cleanly() -> Iterator[None]:
+    """Turn SIGTERM into :class:`_Terminated` while a command runs, so every ``finally`` and
+    temporary folder is cleaned up (the default action kills the process on the spot)."""
+    if threading.current_thread() is not threading.main_thread():
+        yield
+        return
+
+    def handler(signum: int, frame: object) -> None:
+        raise _Terminated
+
+    previous = signal.signal(signal.SIGTERM, handler)
+    try:
+        yield
+    finally:
+        signal.signal(signal.SIGTERM, previous)
 
 
 def main(argv: Sequence[str] | None = None) -> int:
@@ -222,10 +263,14 @@ def main(argv: Sequence[str] | None = None) -> int:
             )
             return 2
     try:
-        return args.func(args)
+        with _terminate_cleanly(), _tempfiles.run_folder():
+            return args.func(args)
+    except _Terminated:
+        print("errdist: terminated; nothing written", file=sys.stderr)
+        return 143
     except (ValueError, OSError) as exc:
         print(f"errdist {args.command}: {exc}", file=sys.stderr)
-        return 2
+        return EXIT_CANNOT_READ
     except ImportError as exc:
         missing = _missing_headless(exc)
         if missing is None:
@@ -239,6 +284,15 @@ def main(argv: Sequence[str] | None = None) -> int:
     except KeyboardInterrupt:
         print("errdist: interrupted; nothing written", file=sys.stderr)
         return 130
+    except Exception as exc:  # a defect: say so in one line, keep exit code 1 for "differs"
+        if os.environ.get("ERRDIST_DEBUG"):
+            raise
+        print(
+            f"errdist {args.command}: internal error ({type(exc).__name__}: {exc}); nothing "
+            "written. Please report it; ERRDIST_DEBUG=1 shows the traceback",
+            file=sys.stderr,
+        )
+        return EXIT_INTERNAL
 
 
 if __name__ == "__main__":

@@ -41,6 +41,7 @@ from scipy import optimize, special, stats
 from errdist import estimate as _est
 from errdist.checks.goodness import kolmogorov_smirnov
 from errdist.errors import InsufficientDataError
+from errdist.estimate.sample_stats import binary_exponent
 from errdist.law import symmetric as _dist
 from errdist.risk import value_at_risk
 
@@ -132,19 +133,28 @@ def _t_const(nu: float) -> float:
 
 
 def _t_loglik(x: NDArray[np.float64], m: float, s: float, nu: float) -> float:
-    r2 = ((x - m) / s) ** 2
+    r = np.abs((x - m) / s)
     n = x.size
     c = _t_const(nu)
-    return float(n * (c - math.log(s)) - 0.5 * (nu + 1.0) * np.sum(np.log1p(r2 / nu)))
+    # ln(1 + r²/ν); beyond r = 1e150 (r² would overflow) it is 2 ln r - ln ν to double precision
+    with np.errstate(over="ignore"):
+        lg = np.where(r < 1e150, np.log1p(r * r / nu), 2.0 * np.log(r) - math.log(nu))
+    return float(n * (c - math.log(s)) - 0.5 * (nu + 1.0) * np.sum(lg))
 
 
 def _t_em(x: NDArray[np.float64], m: float, s: float, nu: float, iters: int) -> tuple[float, float]:
     """EM updates of (loc, scale) of the t law for fixed ν (Liu & Rubin 1995)."""
     for _ in range(iters):
         r = (x - m) / s
-        w = (nu + 1.0) / (nu + r * r)
+        with np.errstate(over="ignore"):
+            w = (nu + 1.0) / (nu + r * r)
         m = float(np.sum(w * x) / np.sum(w))
-        s = float(math.sqrt(np.sum(w * (x - m) ** 2) / x.size))
+        # s² = Σ w r² / n in units of the previous s, with w r² = (ν+1) / (ν/r² + 1), so a far
+        # outlier (r² = inf) adds ν+1 instead of 0·inf = NaN
+        with np.errstate(divide="ignore", over="ignore"):
+            r2 = ((x - m) / s) ** 2
+            wr2 = (nu + 1.0) / (nu / r2 + 1.0)
+        s = s * float(math.sqrt(np.sum(wr2) / x.size))
         if not s > 0:
             raise InsufficientDataError("the data have no spread; a scale cannot be fitted")
     return m, s
@@ -188,16 +198,19 @@ def _polish(
     if fix_nu is None:
         bounds.append((math.log(_DF_MIN), math.log(_DF_MAX)))
     fun: Callable[..., tuple[float, NDArray[np.float64]]] = _t_negll
-    res = optimize.minimize(
-        fun,
-        np.asarray(theta0),
-        args=(x, m, s, fix_nu),
-        jac=True,
-        method="L-BFGS-B",
-        bounds=bounds,
-        options={"ftol": 1e-15, "gtol": 1e-10, "maxiter": 500},
-    )
-    start_nll = fun(np.asarray(theta0), x, m, s, fix_nu)[0]
+    # a far outlier makes r² overflow to inf in some trial steps: their -ln L is inf, which
+    # the optimizer rejects; the warning is expected there
+    with np.errstate(over="ignore", invalid="ignore"):
+        res = optimize.minimize(
+            fun,
+            np.asarray(theta0),
+            args=(x, m, s, fix_nu),
+            jac=True,
+            method="L-BFGS-B",
+            bounds=bounds,
+            options={"ftol": 1e-15, "gtol": 1e-10, "maxiter": 500},
+        )
+        start_nll = fun(np.asarray(theta0), x, m, s, fix_nu)[0]
     if not (np.isfinite(res.fun) and res.fun <= start_nll):
         return m, s, nu
     m1 = m + s * float(res.x[0])
@@ -314,26 +327,35 @@ def compare(data: ArrayLike) -> pd.DataFrame:
     n = x.size
     if not np.ptp(x) > 0:
         raise InsufficientDataError("the data have no spread; no law can be fitted")
+    # Data near 1e±300 (or one huge outlier) would overflow squares and sums: fit y = x / 2**e
+    # (exact scaling) and scale back. Every law here is a location-scale family: loc, scale
+    # and VaR scale with the data, the shape/df and the KS distance do not, ln L drops by
+    # n·e·ln 2.
+    e = binary_exponent(x)
+    e = e if abs(e) > 200 else 0
+    y = np.ldexp(x, -e) if e else x
+    shift = n * e * math.log(2.0)
     fits = [
-        fit_generalized_normal(x),
-        fit_normal(x),
-        fit_laplace(x),
-        fit_student_t(x),
-        fit_cauchy(x),
+        fit_generalized_normal(y),
+        fit_normal(y),
+        fit_laplace(y),
+        fit_student_t(y),
+        fit_cauchy(y),
     ]
     rows = []
     for f in fits:
+        loglik = f.loglik - shift
         rows.append(
             {
                 "law": f.law,
-                "loc": f.loc,
-                "scale": f.scale,
+                "loc": math.ldexp(f.loc, e),
+                "scale": math.ldexp(f.scale, e),
                 "shape_or_df": f.shape_or_df,
-                "loglik": f.loglik,
-                "aic": 2.0 * f.k - 2.0 * f.loglik,
-                "bic": f.k * math.log(n) - 2.0 * f.loglik,
-                "ks": float(kolmogorov_smirnov(_cdf(f, x))),
-                "var99": _var99(f),
+                "loglik": loglik,
+                "aic": 2.0 * f.k - 2.0 * loglik,
+                "bic": f.k * math.log(n) - 2.0 * loglik,
+                "ks": float(kolmogorov_smirnov(_cdf(f, y))),
+                "var99": math.ldexp(_var99(f), e),
                 "at_bound": bool(f.at_bound),
             }
         )

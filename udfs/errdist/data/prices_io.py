@@ -65,6 +65,13 @@ MAX_CSV_BYTES = 50 * 1024 * 1024
 PRICE_NAMES = ("price", "adj close", "adj_close", "adjusted close", "close", "nav", "value")
 """Header names preferred for the price column when several columns hold numbers."""
 
+MAX_PRICE_ROWS = 10_000
+"""Most data rows read from a prices file (40 years of trading days); environment variable
+``ERRDIST_MAX_PRICE_ROWS`` raises it. The refresh's workbook holds every return in its sheets,
+and its work grows with them (20,000 rows: 5 min and 0.7 GB on the reference machine);
+trim the file to the
+history the risk policy asks for, or raise the limit."""
+
 MAX_AS_OF_GAP_DAYS = 10
 """Most calendar days ``as_of`` may fall after the file's last date: weekends and holiday
 closures leave gaps of a few days (common practice, no source); a longer gap means the file
@@ -110,6 +117,66 @@ def _blank(v: Any) -> bool:
 # Reading the raw table
 
 
+def _decode_text(raw: bytes, path: Path) -> str:
+    """A CSV file's bytes as text: UTF-8 (with or without BOM), UTF-16 (BOM, or the NUL
+    pattern of ASCII text, as spreadsheets save "Unicode text"), else Windows-1252."""
+    head = raw[:4]
+    encoding = None
+    if head[:4] in (b"\xff\xfe\x00\x00", b"\x00\x00\xfe\xff"):
+        encoding = "utf-32"
+    elif head[:2] in (b"\xff\xfe", b"\xfe\xff"):
+        encoding = "utf-16"
+    elif len(raw) >= 4 and raw[1:4:2] == b"\x00\x00" and raw[0:4:2] != b"\x00\x00":
+        encoding = "utf-16-le"
+    elif len(raw) >= 4 and raw[0:4:2] == b"\x00\x00" and raw[1:4:2] != b"\x00\x00":
+        encoding = "utf-16-be"
+    if encoding is not None:
+        try:
+            text = raw.decode(encoding)
+        except UnicodeDecodeError:
+            raise InputTypeError(
+                f"{path}: not a text (CSV) file (damaged {encoding.upper()} text)"
+            ) from None
+    else:
+        try:
+            text = raw.decode("utf-8-sig")
+        except UnicodeDecodeError:
+            text = raw.decode("cp1252", errors="replace")
+    text = text.removeprefix("\ufeff")
+    if "\x00" in text:
+        raise InputTypeError(f"{path}: not a text (CSV) file")
+    return text
+
+
+class _bounded_rows:  # noqa: N801 - used like csv.reader
+    """A ``csv.reader`` whose malformed rows (a field over the csv module's limit of 131,072
+    characters, a NUL) raise an ``InputTypeError`` naming the line."""
+
+    def __init__(self, reader: Any, path: Path) -> None:
+        self.reader, self.path = reader, path
+
+    @property
+    def line_num(self) -> int:
+        return int(self.reader.line_num)
+
+    def __iter__(self) -> _bounded_rows:
+        return self
+
+    def __next__(self) -> list[str]:
+        try:
+            return next(self.reader)
+        except csv.Error as exc:
+            limit = csv.field_size_limit()
+            what = (
+                f"a value longer than {limit:,} characters"
+                if "field larger" in str(exc)
+                else f"malformed CSV ({exc})"
+            )
+            raise InputTypeError(
+                f"{self.path}: line {self.reader.line_num}: {what}; this is not a prices file"
+            ) from None
+
+
 def _read_csv(path: Path) -> _Table:
     size = path.stat().st_size
     if size > MAX_CSV_BYTES:
@@ -118,12 +185,7 @@ def _read_csv(path: Path) -> _Table:
             f"{MAX_CSV_BYTES / 1e6:.0f} MB limit for a prices file"
         )
     raw = path.read_bytes()
-    try:
-        text = raw.decode("utf-8-sig")
-    except UnicodeDecodeError:
-        text = raw.decode("cp1252", errors="replace")
-    if "\x00" in text:
-        raise InputTypeError(f"{path}: not a text (CSV) file")
+    text = _decode_text(raw, path)
     first = next((ln for ln in text.splitlines() if ln.strip()), "")
     sep_line = re.fullmatch(r"\s*sep=(.)\s*", first)  # a spreadsheet's delimiter hint line
     if sep_line:
@@ -131,7 +193,7 @@ def _read_csv(path: Path) -> _Table:
     else:
         counts = {d: first.count(d) for d in (",", ";", "\t")}
         delimiter = max(counts, key=lambda d: counts[d]) if any(counts.values()) else ","
-    reader = csv.reader(io.StringIO(text, newline=""), delimiter=delimiter)
+    reader = _bounded_rows(csv.reader(io.StringIO(text, newline=""), delimiter=delimiter), path)
     header: list[str] | None = None
     rows: list[tuple[int, list[Any]]] = []
     start = 1
@@ -349,19 +411,67 @@ def _detect_price_column(table: _Table, date_col: int) -> int:
     raise InputTypeError(f"several columns hold numbers ({names}); name one with --price-column")
 
 
+MAX_REPEATED_SHARE = 0.5
+"""Largest share of daily returns that may be exactly 0 (the price repeated). Above it the
+file holds weekly or stale prices repeated daily, and a fit of daily returns would report a
+spurious zero risk (common practice, no source)."""
+
+
+def _check_prices_move(p: Path, prices: list[float], rows: list[int]) -> None:
+    """Refuse prices that do not move: repeated (stale, or weekly prices filled in daily) or
+    growing at a fixed rate (a deposit or accrual series): their returns have no spread."""
+    import numpy as np
+
+    x = np.asarray(prices, dtype=np.float64)
+    r = np.log(x[1:] / x[:-1])
+    repeated = [rows[i + 1] for i in np.flatnonzero(r == 0.0)]
+    if len(repeated) > MAX_REPEATED_SHARE * r.size:
+        what = "never changes" if len(repeated) == r.size else "repeats"
+        raise DomainError(
+            f"{p}: the price {what}: {len(repeated):,} of {r.size:,} daily returns are 0 "
+            f"({_rows_text(repeated, 5)}). Weekly or stale prices filled in daily would show "
+            "a false zero risk; give one price per trading day that it was valued"
+        )
+    spread = float(np.max(r) - np.min(r))
+    if spread <= 1e-9 * float(np.max(np.abs(r))):
+        raise DomainError(
+            f"{p}: every daily return is {float(np.mean(r)):.6%} (a fixed-rate or accrual "
+            "series): returns with no spread have no distribution to fit"
+        )
+
+
 def _parse_as_of(as_of: Any) -> dt.date | None:
-    if as_of is None or (isinstance(as_of, str) and not as_of.strip()):
+    if as_of is None:
         return None
+    if isinstance(as_of, str) and not as_of.strip():
+        raise InputTypeError("--as-of is blank; give a date YYYY-MM-DD, or leave it out")
     if isinstance(as_of, dt.datetime):
         return as_of.date()
     if isinstance(as_of, dt.date):
         return as_of
     if isinstance(as_of, pd.Timestamp):
         return as_of.date()
+    text = str(as_of).strip()
+    if not re.fullmatch(r"\d{4}-\d{2}-\d{2}", text):
+        raise InputTypeError(f"--as-of must be a date YYYY-MM-DD, got {as_of!r}")
     try:
-        return dt.date.fromisoformat(str(as_of).strip())
-    except ValueError:
-        raise InputTypeError(f"--as-of must be a date YYYY-MM-DD, got {as_of!r}") from None
+        return _in_range(dt.date.fromisoformat(text), "--as-of")
+    except ValueError as exc:
+        raise InputTypeError(f"--as-of {text}: {exc}") from None
+
+
+FIRST_DATE = dt.date(1677, 9, 22)
+LAST_DATE = dt.date(2262, 4, 11)
+"""Dates errdist can hold (pandas' nanosecond timestamps span 1677-09-21 to 2262-04-11)."""
+
+
+def _in_range(d: dt.date, what: str) -> dt.date:
+    if not FIRST_DATE <= d <= LAST_DATE:
+        raise DomainError(
+            f"{what} {d.isoformat()} is outside the dates errdist handles "
+            f"({FIRST_DATE.isoformat()} to {LAST_DATE.isoformat()}); check the date"
+        )
+    return d
 
 
 # ----------------------------------------------------------------------------------------------
@@ -420,6 +530,13 @@ def read_prices(
         raise InputTypeError(f"{p}: old .xls workbooks are not read; save as .xlsx or CSV")
     else:
         raise InputTypeError(f"{p}: expected a .csv or .xlsx file")
+    limit = safety.env_limit("ERRDIST_MAX_PRICE_ROWS", MAX_PRICE_ROWS)
+    if len(table.rows) > limit:
+        raise InputTypeError(
+            f"{p}: {len(table.rows):,} data rows, more than the limit of {limit:,}; keep the "
+            "history the risk policy asks for, or raise the limit with the environment "
+            f"variable ERRDIST_MAX_PRICE_ROWS={len(table.rows)}"
+        )
     if not table.rows:
         raise InsufficientDataError(f"{p}: no data rows under the header")
 
@@ -486,6 +603,13 @@ def read_prices(
             f"{p}: {_rows_text(bad_price)}: prices must be > 0 and finite, got {example:g}"
         )
 
+    far = [r for r, d in zip(row_numbers, dates, strict=True) if not FIRST_DATE <= d <= LAST_DATE]
+    if far:
+        example = dates[row_numbers.index(far[0])]
+        raise DomainError(
+            f"{p}: {_rows_text(far)}: date {example.isoformat()} is outside the dates errdist "
+            f"handles ({FIRST_DATE.isoformat()} to {LAST_DATE.isoformat()}); check the date"
+        )
     seen: dict[dt.date, int] = {}
     dupes = []
     for r, d in zip(row_numbers, dates, strict=True):
@@ -541,6 +665,7 @@ def read_prices(
             f"{p}: {keep} prices{upto} give {max(keep - 1, 0)} returns; at least "
             f"{MIN_RETURNS} returns ({MIN_RETURNS + 1} prices) are needed"
         )
+    _check_prices_move(p, prices[:keep], row_numbers[:keep])
     df = pd.DataFrame(
         {
             "date": pd.to_datetime(pd.Series(dates[:keep], dtype="object")).astype(

@@ -28,6 +28,7 @@ from errdist.estimate.sample_stats import (
     _mean,
     _require_spread,
     _std,
+    binary_exponent,
     clean_sample,
     sample_excess_kurtosis,
     sample_mean,
@@ -52,6 +53,9 @@ __all__ = [
     "solve_scale",
     "solve_shape",
 ]
+
+_RESCALE_BEYOND = 200
+"""Data whose largest magnitude is beyond 2**±200 are fitted rescaled (see :func:`fit`)."""
 
 N_PARAMS = 3
 """Number of fitted parameters (loc, scale, shape) used in AIC and BIC."""
@@ -211,6 +215,21 @@ def fit(
     if method not in ("mle", "moments"):
         raise InputTypeError(f"method must be 'mle' or 'moments', got {method!r}")
     x, n_dropped = _clean(data, "data", 4, copy=False)  # read only below
+    e = binary_exponent(x)
+    if abs(e) > _RESCALE_BEYOND:
+        # Data near 1e±300: fit x / 2**e (exact scaling) and scale the result back; the law is
+        # a location-scale family, so loc and scale scale with the data, the shape does not,
+        # and ln L drops by n·e·ln 2.
+        f = fit(np.ldexp(x, -e), method=method, start=start)
+        return _make_fit(
+            math.ldexp(f.loc, e),
+            math.ldexp(f.scale, e),
+            f.shape,
+            f.method,
+            f.n,
+            n_dropped,
+            f.loglik - f.n * e * math.log(2.0),
+        )
     n = x.size
     if method == "moments":
         k = _kurt(x)  # raises on zero spread

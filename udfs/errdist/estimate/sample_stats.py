@@ -114,13 +114,24 @@ def _clean(data: Any, name: str, min_count: int, *, copy: bool) -> tuple[np.ndar
     return values, n_dropped
 
 
+def binary_exponent(x: np.ndarray) -> int:
+    """Binary exponent e with max|x| < 2**e: dividing by 2**e (exact) brings x into [-1, 1]."""
+    top = float(np.max(np.abs(x))) if x.size else 0.0
+    return math.frexp(top)[1] if top > 0 else 0
+
+
 def _mean(x: np.ndarray) -> float:
-    return math.fsum(x.tolist()) / x.size
+    """Mean, computed on x / 2**e (exact scaling): no overflow of the sum near 1e308."""
+    e = binary_exponent(x)
+    return math.ldexp(math.fsum(np.ldexp(x, -e).tolist()) / x.size, e)
 
 
 def _std(x: np.ndarray, mean: float) -> float:
-    d = x - mean
-    return math.sqrt(math.fsum((d * d).tolist()) / (x.size - 1))
+    """STDEV.S computed on x / 2**e (exact scaling), so squares of data near 1e300 do not
+    overflow and squares of data near 1e-300 do not underflow to a false "no spread"."""
+    e = binary_exponent(x)
+    d = np.ldexp(x, -e) - math.ldexp(mean, -e)
+    return math.ldexp(math.sqrt(math.fsum((d * d).tolist()) / (x.size - 1)), e)
 
 
 def _require_spread(x: np.ndarray, s: float, name: str) -> None:

@@ -33,19 +33,26 @@ Carlo in ``tests/test_risk_horizon.py``. The discrete laws are cached per
 from __future__ import annotations
 
 import math
+from collections import OrderedDict
 from dataclasses import dataclass
-from functools import lru_cache
 
 import numpy as np
 from numpy.typing import NDArray
 from scipy import special as sc
 
+from errdist.errors import DomainError
+
 __all__ = ["sum_lower_tail"]
 
 #: Grid points per standard deviation of the h-day sum.
 _POINTS_PER_SD = 128
-#: Largest FFT length accepted (memory / time guard).
-_MAX_FFT = 1 << 24
+MAX_FFT = 1 << 24
+"""Largest FFT length accepted (16,777,216 points: ~3 s and ~1 GB peak on the
+reference machine); a longer grid is a :class:`DomainError` naming the horizon and shape."""
+
+CACHE_BYTES = 256 * 1024 * 1024
+"""Most memory kept by the cache of discretised laws (256 MB); the least recently used laws
+are dropped beyond it."""
 
 
 @dataclass(frozen=True)
@@ -71,8 +78,12 @@ def _grid_law(shape: float, h: int, d: float, tail_eps: float) -> _GridLaw:
     k_max = max(int(math.ceil(reach / d)), 8)
     support = 2 * h * k_max + 1
     nfft = 1 << (support - 1).bit_length()
-    if nfft > _MAX_FFT:
-        raise OverflowError(f"convolution grid too large ({nfft} points)")
+    if nfft > MAX_FFT:
+        raise DomainError(
+            f'the "iid" horizon rule for shape {shape:g} over {h} days needs a convolution '
+            f"grid of {nfft:,} points, more than the limit of {MAX_FFT:,}; use a shorter "
+            'horizon or the "sqrt" rule'
+        )
     # lower half cell edges -(K - 1/2)d ... -d/2 and the CDF there (0.5 Q: accurate lower tail)
     edges = (np.arange(-k_max, 0) + 0.5) * d
     f_edges = 0.5 * sc.gammaincc(c, np.abs(edges) ** shape)
@@ -98,10 +109,26 @@ def _grid_law(shape: float, h: int, d: float, tail_eps: float) -> _GridLaw:
     return _GridLaw(d=d, x=x, mass=mass, cdf=cdf, partial=partial)
 
 
-@lru_cache(maxsize=64)
+_CACHE: OrderedDict[tuple[float, int, float], tuple[_GridLaw, _GridLaw]] = OrderedDict()
+
+
+def _nbytes(laws: tuple[_GridLaw, _GridLaw]) -> int:
+    return sum(a.nbytes for law in laws for a in (law.x, law.mass, law.cdf, law.partial))
+
+
 def _laws(shape: float, h: int, tail_eps: float) -> tuple[_GridLaw, _GridLaw]:
+    """The fine and coarse discretised laws, from a cache bounded by :data:`CACHE_BYTES`."""
+    key = (shape, h, tail_eps)
+    hit = _CACHE.get(key)
+    if hit is not None:
+        _CACHE.move_to_end(key)
+        return hit
     d = math.sqrt(h) * _std_sd(shape) / _POINTS_PER_SD
-    return _grid_law(shape, h, d, tail_eps), _grid_law(shape, h, 2.0 * d, tail_eps)
+    laws = _grid_law(shape, h, d, tail_eps), _grid_law(shape, h, 2.0 * d, tail_eps)
+    _CACHE[key] = laws
+    while len(_CACHE) > 1 and sum(map(_nbytes, _CACHE.values())) > CACHE_BYTES:
+        _CACHE.popitem(last=False)
+    return laws
 
 
 def _read(law: _GridLaw, u: float) -> tuple[float, float]:

@@ -72,6 +72,12 @@ from errdist.risk.horizon import sum_lower_tail
 
 __all__ = ["HORIZON_RULES", "expected_shortfall", "value_at_risk"]
 
+IID_MIN_TAIL = 1e-9
+"""Smallest tail probability 1 - confidence (or confidence, below 1/2) accepted by the "iid"
+rule: down to it VaR and ES are accurate to 1e-6 relative (checked against the normal law,
+where the rule must equal the square root of time); further out the convolution's rounding
+noise (~1e-16 per grid point) is no longer small against the tail mass."""
+
 #: The accepted values of ``horizon_rule``.
 HORIZON_RULES = ("sqrt", "iid")
 
@@ -87,6 +93,13 @@ def _first_bad(name: str, arr: NDArray[np.float64], bad: NDArray[np.bool_], rule
 def _check_confidence(confidence: ArrayLike) -> NDArray[np.float64]:
     c = as_float_array("confidence", confidence, strict=False)
     _first_bad("confidence", c, ~((c > 0.0) & (c < 1.0)), "a fraction in (0, 1) such as 0.99")
+    # 1 - c must stay inside (0, 1): a confidence below 1.1e-16 rounds 1 - c to exactly 1
+    _first_bad(
+        "confidence",
+        c,
+        ~(1.0 - c < 1.0),
+        "at least 1.2e-16 (closer to 0, 1 - confidence rounds to 1 in double precision)",
+    )
     return c
 
 
@@ -175,6 +188,13 @@ def _risk_unchecked(
         qs = np.empty(u.shape)
         es = np.empty(u.shape)
         w = np.minimum(u, 1.0 - u)  # symmetric law: work on the lower half only
+        if np.any(w < 0.999 * IID_MIN_TAIL):  # 1 - (1 - 1e-9) rounds to 0.99999997e-9
+            bad = float(np.asarray(c).reshape(-1)[int(np.argmin(w.reshape(-1)))])
+            raise DomainError(
+                f'confidence {_fmt(bad)} is too far in the tail for the "iid" horizon rule, '
+                f"which is accurate to 1e-6 only for confidence between {IID_MIN_TAIL:g} and "
+                f'1 - {IID_MIN_TAIL:g}; use a confidence in that range or the "sqrt" rule'
+            )
         for shape_value in np.unique(b):
             sel = b == shape_value
             qw, ew = sum_lower_tail(w[sel], float(shape_value), n)

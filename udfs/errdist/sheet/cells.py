@@ -25,7 +25,9 @@ concise text that starts with the spreadsheet error code, e.g. ``#NUM! shape mus
 (classic xlwings cannot write true error values). Core exceptions map to codes by class
 (:func:`sheet_error`): ``DomainError`` -> ``#NUM!``, ``InsufficientDataError`` -> ``#N/A``,
 ``InputTypeError`` -> ``#VALUE!``, any other ``ValueError`` -> ``#NUM!`` (as documented in
-:mod:`errdist.errors`), anything else -> ``#VALUE! internal error: ...``. A traceback never
+:mod:`errdist.errors`), an ``ArithmeticError`` (overflow, division by zero) -> ``#NUM!``,
+anything else -> ``#VALUE! internal error: ...``. An input cell holding an error value passes
+its own code through (``#N/A`` in a data range gives ``#N/A``), as built-in functions do. A traceback never
 reaches a cell.
 
 Results go back as a scalar or a list of rows; ``NaN`` becomes a blank (``None``) in its own
@@ -96,8 +98,11 @@ ERROR_TEXTS: frozenset[str] = frozenset(
     }
 )
 
-#: Codes a :class:`SheetError` may carry.
-CODES: frozenset[str] = frozenset({"#NUM!", "#VALUE!", "#N/A"})
+#: Codes a :class:`SheetError` may carry: errdist's own three, and the other standard error
+#: values, which an input cell's error passes through unchanged (as built-in functions do).
+CODES: frozenset[str] = frozenset(
+    {"#NUM!", "#VALUE!", "#N/A", "#DIV/0!", "#NAME?", "#NULL!", "#REF!"}
+)
 
 _MAX_MESSAGE = 240  # cell texts stay short; Excel's own limit is far higher
 _NUMERIC_TYPES = (float, int, type(None))
@@ -151,7 +156,8 @@ def sheet_error(exc: BaseException) -> SheetError:
 
     ``DomainError`` -> ``#NUM!``, ``InsufficientDataError`` -> ``#N/A``,
     ``InputTypeError`` -> ``#VALUE!``, another ``ErrdistError`` -> its ``code``,
-    a plain ``ValueError`` -> ``#NUM!``, anything else -> ``#VALUE! internal error: ...``.
+    a plain ``ValueError`` or an ``ArithmeticError`` -> ``#NUM!``, anything else ->
+    ``#VALUE! internal error: ...``.
     """
     if isinstance(exc, SheetError):
         return exc
@@ -167,6 +173,16 @@ def sheet_error(exc: BaseException) -> SheetError:
         return SheetError(code, message)
     if isinstance(exc, ValueError):
         return SheetError("#NUM!", message)
+    if isinstance(exc, RuntimeWarning) and any(
+        w in message for w in ("overflow", "divide by zero", "underflow")
+    ):  # numpy's floating-point warnings, raised as errors while a function runs
+        exc = OverflowError(message) if "divide" not in message else ZeroDivisionError(message)
+    if isinstance(exc, ArithmeticError):  # overflow, division by zero: out of double range
+        what = {"ZeroDivisionError": "division by zero", "OverflowError": "numeric overflow"}
+        kind = what.get(type(exc).__name__, "floating-point error")
+        return SheetError(
+            "#NUM!", f"{kind}: the inputs are too extreme to compute in double precision"
+        )
     name = type(exc).__name__
     return SheetError("#VALUE!", f"internal error: {name}: {message}" if message else name)
 
@@ -215,6 +231,14 @@ def error_text(value: object) -> str | None:
         text = str(value).strip().upper()
         return text if text in ERROR_TEXTS else "#VALUE!"
     return None
+
+
+def _code_for(value: object) -> str:
+    """The code of the error a bad input cell causes: its own error value when it holds one
+    of the standard ones (``#N/A`` stays ``#N/A``, as built-in functions pass it), else
+    ``#VALUE!``."""
+    err = error_text(value)
+    return err if err in CODES else "#VALUE!"
 
 
 def describe(value: object) -> str:
@@ -274,9 +298,15 @@ def _grid(value: object, name: str) -> tuple[list[Any] | np.ndarray, int, int]:
             rows = value
             if ncols == 0:
                 raise SheetError("#VALUE!", f"{name} is an empty range")
+            for i, row in enumerate(rows):
+                if not isinstance(row, (list, tuple, np.ndarray)) or len(row) != ncols:
+                    got = len(row) if isinstance(row, (list, tuple, np.ndarray)) else 1
+                    raise SheetError(
+                        "#VALUE!",
+                        f"{name} has rows of different lengths: row 1 has {ncols} cells, "
+                        f"row {i + 1} has {got}",
+                    )
             flat = list(chain.from_iterable(rows))
-            if len(flat) != ncols * len(rows):
-                raise SheetError("#VALUE!", f"{name} has rows of different lengths")
             return flat, len(rows), ncols
         return list(value), len(value), 1
     return [value], 1, 1
@@ -301,7 +331,7 @@ def _floats(flat: list[Any] | np.ndarray, name: str, what: str) -> np.ndarray:
     for i, v in enumerate(flat):
         f = _scalar_float(v)
         if f is None:
-            raise SheetError("#VALUE!", f"cell {i + 1} of {what} {describe(v)}")
+            raise SheetError(_code_for(v), f"cell {i + 1} of {what} {describe(v)}")
         out[i] = f
     return out
 
@@ -334,7 +364,7 @@ def as_number(value: object, name: str, *, spill: bool = True) -> float | np.nda
     if not isinstance(value, (list, tuple, np.ndarray)):
         f = _scalar_float(value)
         if f is None or f != f:
-            raise SheetError("#VALUE!", f"{name} {describe(value)}; a number is needed")
+            raise SheetError(_code_for(value), f"{name} {describe(value)}; a number is needed")
         return f
     flat, nrows, ncols = _grid(value, name)
     if nrows * ncols == 1:
@@ -354,7 +384,7 @@ def as_data(value: object, name: str) -> np.ndarray:
     if not isinstance(value, (list, tuple, np.ndarray)):
         f = _scalar_float(value)
         if f is None:
-            raise SheetError("#VALUE!", f"cell 1 of {name} {describe(value)}")
+            raise SheetError(_code_for(value), f"cell 1 of {name} {describe(value)}")
         return np.array([[f]])
     flat, nrows, ncols = _grid(value, name)
     arr = _floats(flat, name, name).reshape(nrows, ncols)
@@ -383,7 +413,7 @@ def as_text(
             raise SheetError("#VALUE!", f"{name} is blank; a text is needed")
         return default
     if error_text(value) is not None or not isinstance(value, str):
-        raise SheetError("#VALUE!", f"{name} {describe(value)}; a text is needed")
+        raise SheetError(_code_for(value), f"{name} {describe(value)}; a text is needed")
     text = value.strip().lower()
     if choices and text not in choices:
         allowed = ", ".join(f'"{c}"' for c in choices)
@@ -412,7 +442,7 @@ def as_flag(value: object, name: str, *, default: bool = False) -> bool:
             return True
         if text in _FALSE_TEXTS:
             return False
-    raise SheetError("#VALUE!", f"{name} {describe(value)}; TRUE or FALSE is needed")
+    raise SheetError(_code_for(value), f"{name} {describe(value)}; TRUE or FALSE is needed")
 
 
 # --------------------------------------------------------------------------- results

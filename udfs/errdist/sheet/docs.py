@@ -64,8 +64,10 @@ set beside the spreadsheet's `KURT` of the data.
   spill. On Excel without dynamic arrays, select the output range and enter the
   formula with Ctrl+Shift+Enter.
 - **Data ranges** (kind *data range*) are read row by row; blank cells are skipped and
-  counted; a text, logical or error cell gives `#VALUE!` naming its position
-  (`#VALUE! cell 7 of data is text 'n/a'`). Blank rows after the last number (a whole
+  counted; a text or logical cell gives `#VALUE!` naming its position
+  (`#VALUE! cell 7 of data is text 'n/a'`), and an error cell passes its own error through,
+  as built-in functions do (`#N/A cell 3 of data is an error value #N/A`). Rows of different
+  lengths are refused, never re-flowed. Blank rows after the last number (a whole
   column such as `A:A`) are ignored.
 - **Errors.** A failed call shows one text that starts with the spreadsheet error code:
   `#NUM!` for a number outside its domain (`#NUM! scale must be > 0, got -1`), `#VALUE!` for

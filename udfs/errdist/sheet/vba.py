@@ -156,15 +156,40 @@ def vba_module(entries: Iterable[Entry] | None = None, *, module_name: str = MOD
 
 
 def main(args: argparse.Namespace) -> int:
-    """``errdist vba [--out FILE]``: print the module, or write it to FILE (CRLF, atomic)."""
+    """``errdist vba [--out FILE.bas] [--force]``: print the module, or write it to FILE.
+
+    The file is written atomically (CRLF, ASCII). ``FILE`` must end in ``.bas`` (what the VBA
+    editor imports), and an existing file is replaced only with ``--force``; either refusal
+    returns exit code 2 and leaves every file as it was.
+    """
     text = vba_module()
     out = getattr(args, "out", None)
     if out is None:
         sys.stdout.write(text)
         return 0
     path = Path(out)
+    force = bool(getattr(args, "force", False))
+    if path.suffix.lower() != ".bas":
+        print(
+            f"errdist vba: --out must name a .bas file (the VBA editor imports .bas), got {out}",
+            file=sys.stderr,
+        )
+        return 2
+    if path.is_dir():
+        print(f"errdist vba: {out} is a folder, not a file", file=sys.stderr)
+        return 2
     try:
-        replace_text(path, text, encoding="ascii", newline="\r\n", prefix=".errdist-vba-")
+        replace_text(
+            path,
+            text,
+            encoding="ascii",
+            newline="\r\n",
+            prefix=".errdist-vba-",
+            overwrite=force,
+        )
+    except FileExistsError:
+        print(f"errdist vba: {out} exists; use --force to overwrite", file=sys.stderr)
+        return 2
     except OSError as exc:
         print(f"errdist vba: cannot write {out}: {exc.strerror or exc}", file=sys.stderr)
         return 2

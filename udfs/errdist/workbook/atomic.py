@@ -4,7 +4,9 @@ The content goes to a temporary file in the target's own folder (same file syste
 and ``fsync``-ed, and is then moved into place in one step: ``os.link`` when the target must not
 be overwritten (fails if it appeared meanwhile), ``os.replace`` with ``force``. On any error the
 temporary file is removed, so no partial file is ever left behind, and an existing target is
-never overwritten without ``force``.
+never overwritten without ``force``. The temporary file's name carries the host and process
+id (``.out.xlsx.errdist-HOST-PID-XXXX.tmp``): one left by a killed process is removed by the
+next write into the same folder (:mod:`errdist._tempfiles`).
 """
 
 from __future__ import annotations
@@ -14,6 +16,8 @@ import os
 import tempfile
 from collections.abc import Callable, Iterator
 from pathlib import Path
+
+from errdist import _tempfiles
 
 
 def _exists_message(target: Path) -> str:
@@ -82,7 +86,8 @@ def atomic_path(target: str | os.PathLike[str], *, force: bool = False) -> Itera
     """
     t = check_target(target, force=force)
     folder = t.parent if str(t.parent) else Path(".")
-    fd, name = tempfile.mkstemp(prefix=f".{t.name}.", suffix=".tmp", dir=folder)
+    _tempfiles.sweep(folder)  # leftovers of a killed earlier run in this folder
+    fd, name = tempfile.mkstemp(prefix=_tempfiles.sibling_prefix(t.name), suffix=".tmp", dir=folder)
     os.close(fd)
     tmp = Path(name)
     try:

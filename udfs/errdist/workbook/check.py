@@ -231,14 +231,15 @@ def check_report(
         if engine == "libreoffice":
             report = _libreoffice_report(local, book, tolerance, venv)
         else:
-            report = _formulas_report(local, tolerance)
+            report = _formulas_report(local, tolerance, shown_as=str(path))
     timings = {**report.timings, "formula map": t1 - t0}
     return CheckReport(report.mismatches, report.cells, timings, changes, report.engine)
 
 
-def _formulas_report(local: Path, tolerance: float) -> CheckReport:
-    """Recompute with the headless engine (``formulas``)."""
-    ev = engine_module.evaluate_details(local)
+def _formulas_report(local: Path, tolerance: float, *, shown_as: str) -> CheckReport:
+    """Recompute with the headless engine (``formulas``); ``shown_as`` names the file in
+    messages."""
+    ev = engine_module.evaluate_details(local, shown_as=shown_as)
     stored = stored_values(local)
     out: list[Mismatch] = []
     by_anchor: dict[tuple[str, str], list[engine_module.Problem]] = {}

@@ -250,7 +250,35 @@ def run_refresh(args: argparse.Namespace) -> int:
         )
     print(format_summary(result.summary, out, time.perf_counter() - t0))
     _write_values_copy(out, copy, force)
+    missing = missing_figures(result.summary)
+    if missing:
+        print(
+            f"errdist refresh: {out} was written, but {', '.join(missing)} could not be "
+            "computed (n/a); open the workbook to see why before using it",
+            file=sys.stderr,
+        )
+        return 1
     return 0
+
+
+def missing_figures(summary: Mapping[str, Any]) -> list[str]:
+    """The headline figures of a build summary that are n/a (not a finite number)."""
+
+    def bad(v: Any) -> bool:
+        try:
+            return not math.isfinite(float(v))
+        except (TypeError, ValueError):
+            return True
+
+    out = []
+    for key, label in (("moments", "the moments fit"), ("mle", "the MLE fit")):
+        fit = summary.get(key) or {}
+        if any(bad(fit.get(k)) for k in ("loc", "scale", "shape")):
+            out.append(label)
+    for key, label in (("var99", "the 99% VaR"), ("es99", "the 99% ES")):
+        if bad(summary.get(key)):
+            out.append(label)
+    return out
 
 
 EXIT_VALUES = 1
@@ -317,10 +345,16 @@ def run_check(args: argparse.Namespace) -> int:
     extra = len(report.mismatches) - MAX_LISTED
     if extra > 0:
         print(f"... and {extra} more")
-    print(
-        f"{len(report.mismatches):,} of {report.cells:,} formula cells differ or cannot be "
-        f"recomputed (relative tolerance {tolerance:g}; recomputed by {report.engine})"
-    )
+    if report.cells:
+        print(
+            f"{len(report.mismatches):,} of {report.cells:,} formula cells differ or cannot be "
+            f"recomputed (relative tolerance {tolerance:g}; recomputed by {report.engine})"
+        )
+    else:
+        print(
+            f"{len(report.mismatches):,} formula cell(s) or name(s) cannot be recomputed; "
+            "nothing was computed"
+        )
     return code | EXIT_VALUES
 
 

@@ -196,7 +196,12 @@ def normalise_value(value: object) -> object:
 
 def _write_value(ws: _SpillWorksheet, row: int, col: int, value: object, fmt) -> None:
     if value is None:
-        return  # a blank inside a spill: no stored value
+        # a blank inside a spill (e.g. a result that collapsed to one error in the anchor):
+        # no stored value. XlsxWriter padded the range with zeros; drop this cell's.
+        ws.table.get(row, {}).pop(col, None)
+        if fmt is not None:
+            ws.write_blank(row, col, None, fmt)
+        return
     # Numbers too go through write_spill_value: write_number keeps only 16 significant
     # digits, and a cached value must read back as exactly the double the engine computed.
     ws.write_spill_value(row, col, value, fmt)

@@ -23,12 +23,20 @@ from errdist.workbook import safety
 from errdist.workbook.engine.register import CAPTURE, formulas_runtime, register_functions
 from errdist.workbook.engine.results import ERROR_CODES, EngineError, Evaluation, Problem
 from errdist.workbook.engine.scan import (
+    check_formula_size,
+    check_formula_total,
+    defined_names,
     dynamic_anchors,
     formula_problems,
     mark_omitted_arguments,
+    refers_to_other_file,
     sheet_parts,
-    strip_strings,
 )
+
+
+class PrivateBookOnly(RuntimeError):
+    """Raised by the engine's model when a formula would make it open another workbook."""
+
 
 __all__ = ["evaluate_details", "evaluate_workbook"]
 
@@ -64,6 +72,13 @@ def _model_class() -> type:
     from openpyxl.utils.cell import range_boundaries
 
     class Model(formulas.ExcelModel):
+        def add_book(self, book: Any = None, context: Any = None, data_only: bool = False) -> Any:
+            # Only the private copy may be opened: any other book (an external reference that
+            # got past the scans) is refused here, before ``formulas`` opens a file.
+            if self.books and isinstance(book, str) and book.upper() not in self.books:
+                raise PrivateBookOnly(f"refused to open another workbook: {book}")
+            return super().add_book(book, context, data_only)
+
         def push(self, worksheet: Any, context: Any) -> Any:
             worksheet, context = self.add_sheet(worksheet, context)
             references = self.references
@@ -121,13 +136,15 @@ def _col_row(coord: str) -> tuple[int, int]:
     return column_index_from_string(col), row
 
 
-def evaluate_details(path: str | os.PathLike[str]) -> Evaluation:
+def evaluate_details(path: str | os.PathLike[str], *, shown_as: str | None = None) -> Evaluation:
     """Evaluate every formula of a workbook and return values, problems and timings.
 
     Parameters
     ----------
     path : path-like
         The .xlsx workbook (checked by :func:`errdist.workbook.safety.inspect_xlsx` first).
+    shown_as : str, optional
+        The file's name in messages (when ``path`` is a private copy); default ``path``.
 
     Returns
     -------
@@ -142,6 +159,8 @@ def evaluate_details(path: str | os.PathLike[str]) -> Evaluation:
     safety.inspect_xlsx(path)
     safety.defuse_xml()
     functions, _array, _error, sh = formulas_runtime()
+    from formulas.errors import FormulaError
+
     register_functions()  # the catalog's functions (cheap when already registered)
 
     def known(name: str) -> bool:
@@ -160,8 +179,24 @@ def evaluate_details(path: str | os.PathLike[str]) -> Evaluation:
             dynamic = dynamic_anchors(local, parts)
 
             t1 = time.perf_counter()
+            for name, text in defined_names(local):
+                if refers_to_other_file(text):
+                    ev.problems.append(
+                        Problem(
+                            "",
+                            "",
+                            f"name {name}",
+                            "defined name refers to another workbook or file; not followed",
+                        )
+                    )
+            if ev.problems:
+                return ev  # never let formulas resolve the name: refuse before loading
             model = _model_class()()
-            book, context = model.add_book(str(local))
+            try:
+                book, context = model.add_book(str(local))
+            except FormulaError as exc:
+                ev.problems.append(Problem("", "", "", f"a defined name is not valid: {exc}"))
+                return ev
             # Scan every formula before compiling anything.
             scans: list[tuple[str, str, str, str | None]] = []  # sheet, anchor, text, ref
             upper_to_sheet = {ws.title.upper(): ws.title for ws in book.worksheets}
@@ -176,16 +211,11 @@ def evaluate_details(path: str | os.PathLike[str]) -> Evaluation:
                         if text and not text.startswith("="):
                             text = "=" + text
                         scans.append((ws.title, c.coordinate, text, ref))
-            for dn in getattr(book.defined_names, "values", lambda: [])():
-                if "[" in strip_strings(str(dn.value)):
-                    ev.problems.append(
-                        Problem(
-                            "",
-                            "",
-                            f"name {dn.name}",
-                            "defined name refers to another workbook; not followed",
-                        )
-                    )
+            total = 0
+            for sheet, anchor, text, _ref in scans:
+                check_formula_size(text, f"{shown_as or path}: {sheet}!{anchor}")
+                total += len(text)
+            check_formula_total(total, str(shown_as or path))
             blocked: set[tuple[str, str]] = set()
             for sheet, anchor, text, _ref in scans:
                 reasons, volatile = formula_problems(text, known)
@@ -193,7 +223,7 @@ def evaluate_details(path: str | os.PathLike[str]) -> Evaluation:
                     ev.volatile.add((sheet, anchor))
                 for reason in reasons:
                     ev.problems.append(Problem(sheet, anchor, text, reason))
-                if any("another workbook" in r for r in reasons):
+                if any("another workbook or file" in r for r in reasons):
                     blocked.add((sheet, anchor))
             if blocked:
                 # Never let formulas try to open another file: refuse before compiling.

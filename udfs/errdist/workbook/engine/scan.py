@@ -11,12 +11,21 @@ import re
 from collections.abc import Callable
 from pathlib import Path
 
+from errdist.workbook import safety
+
 __all__ = [
+    "MAX_FORMULA_CHARS",
+    "MAX_FORMULA_DEPTH",
+    "MAX_FORMULA_LENGTH",
     "OMITTED",
     "UNRELIABLE_FUNCTIONS",
     "VOLATILE_FUNCTIONS",
+    "check_formula_size",
+    "check_formula_total",
+    "defined_names",
     "formula_problems",
     "mark_omitted_arguments",
+    "refers_to_other_file",
     "sheet_parts",
 ]
 
@@ -49,7 +58,21 @@ VOLATILE_FUNCTIONS = frozenset(
 )
 """Functions whose value changes at each recalculation; a recomputation may differ."""
 
+MAX_FORMULA_LENGTH = 8192
+"""Longest formula text accepted (characters; the spreadsheet's own limit, from memory).
+Environment variable ``ERRDIST_MAX_FORMULA_LENGTH`` raises it."""
+
+MAX_FORMULA_DEPTH = 64
+"""Deepest nesting of parentheses accepted in one formula (the spreadsheet allows 64 nested
+function levels, from memory). Environment variable ``ERRDIST_MAX_FORMULA_DEPTH`` raises it."""
+
+MAX_FORMULA_CHARS = 1_000_000
+"""Most formula text in one workbook, all formula cells together (characters). Compiling
+costs grow faster than the length (one 8,192-character sum: ~18 s, ~370 MB); errdist's own
+workbook holds ~14,000. Environment variable ``ERRDIST_MAX_FORMULA_CHARS`` raises it."""
+
 _STRING_LITERAL = re.compile(r'"(?:[^"]|"")*"')
+_QUOTED_SHEET = re.compile(r"'(?:[^']|'')*'")
 _FUNCTION_NAME = re.compile(r"(?<![A-Za-z0-9_.!'$])([A-Za-z_][A-Za-z0-9_.]*)\s*\(")
 _CM_CELL = re.compile(rb'<c\b[^>]*?\br="([A-Z]+[0-9]+)"[^>]*?\bcm="')
 _CM_CELL_REV = re.compile(rb'<c\b[^>]*?\bcm="[^"]*"[^>]*?\br="([A-Z]+[0-9]+)"')
@@ -117,6 +140,78 @@ def strip_strings(formula: str) -> str:
     return _STRING_LITERAL.sub('""', formula)
 
 
+def refers_to_other_file(formula: str) -> bool:
+    """True when a formula or defined name names another workbook or file.
+
+    A book name in brackets (``[other.xlsx]Sheet1!A1``, ``[1]Sheet1!A1``), or a quoted sheet
+    name holding a path or URL (``'/dir/book.xlsx'!A1``, ``'C:\\dir\\[b.xlsx]S'!A1``): sheet
+    names cannot contain ``/ \\ : [ ]``, so such a quoted name is always a file.
+    """
+    body = strip_strings(formula)
+    if "[" in _QUOTED_SHEET.sub("''", body):
+        return True
+    return any(c in q for q in _QUOTED_SHEET.findall(body) for c in "/\\:[]")
+
+
+def check_formula_size(text: str, where: str) -> None:
+    """Refuse a formula longer than :data:`MAX_FORMULA_LENGTH` or nested deeper than
+    :data:`MAX_FORMULA_DEPTH` (both raised by environment variables).
+
+    Raises
+    ------
+    safety.UnsafeFileError
+        Naming the cell, the limit and the variable that raises it.
+    """
+    max_len = safety.env_limit("ERRDIST_MAX_FORMULA_LENGTH", MAX_FORMULA_LENGTH)
+    if len(text) > max_len:
+        raise safety.UnsafeFileError(
+            f"{where}: formula of {len(text):,} characters, longer than the limit of "
+            f"{max_len:,}; to evaluate it anyway, raise the limit with the environment "
+            f"variable ERRDIST_MAX_FORMULA_LENGTH={len(text)}"
+        )
+    max_depth = safety.env_limit("ERRDIST_MAX_FORMULA_DEPTH", MAX_FORMULA_DEPTH)
+    depth = deepest = 0
+    for ch in strip_strings(text):
+        if ch == "(":
+            depth += 1
+            deepest = max(deepest, depth)
+        elif ch == ")":
+            depth -= 1
+    if deepest > max_depth:
+        raise safety.UnsafeFileError(
+            f"{where}: formula nested {deepest} parentheses deep, deeper than the limit of "
+            f"{max_depth}; to evaluate it anyway, raise the limit with the environment "
+            f"variable ERRDIST_MAX_FORMULA_DEPTH={deepest}"
+        )
+
+
+def check_formula_total(total: int, where: str) -> None:
+    """Refuse a workbook with more than :data:`MAX_FORMULA_CHARS` characters of formulas."""
+    max_chars = safety.env_limit("ERRDIST_MAX_FORMULA_CHARS", MAX_FORMULA_CHARS)
+    if total > max_chars:
+        raise safety.UnsafeFileError(
+            f"{where}: {total:,} characters of formulas, more than the limit of "
+            f"{max_chars:,}; to evaluate it anyway, raise the limit with the environment "
+            f"variable ERRDIST_MAX_FORMULA_CHARS={total}"
+        )
+
+
+def defined_names(path: str | os.PathLike[str]) -> list[tuple[str, str]]:
+    """``(name, text)`` of every defined name in ``xl/workbook.xml`` (parsed with defusedxml)."""
+    import zipfile
+
+    from defusedxml import ElementTree
+
+    ns_main = "{http://schemas.openxmlformats.org/spreadsheetml/2006/main}"
+    with zipfile.ZipFile(path) as z:
+        try:
+            wb = ElementTree.fromstring(z.read("xl/workbook.xml"))
+        except KeyError:
+            return []
+    names = wb.find(f"{ns_main}definedNames")
+    return [(n.get("name", ""), n.text or "") for n in (names if names is not None else ())]
+
+
 def formula_problems(formula: str, known: Callable[[str], bool]) -> tuple[list[str], bool]:
     """Reasons a formula cannot be evaluated headlessly, and whether it is volatile.
 
@@ -129,8 +224,10 @@ def formula_problems(formula: str, known: Callable[[str], bool]) -> tuple[list[s
     """
     body = strip_strings(formula)
     reasons = []
-    if "[" in body:
-        reasons.append("references another workbook or a table ([...]); not followed")
+    if refers_to_other_file(formula):
+        reasons.append("references another workbook or file; not followed")
+    elif "[" in body:
+        reasons.append("uses a table reference ([...]); not evaluated")
     volatile = False
     for raw in _FUNCTION_NAME.findall(body):
         name = raw.upper()
