@@ -70,6 +70,7 @@ _HALF_WINDOW = 8  # minimum half-width (ranks) of the b <= 1 candidate window
 _SHELLS = ((4.0, 22), (16.0, 11), (256.0, 5), (4096.0, 3))
 
 
+_NEWTON_PASSES = 30  # joint Newton passes before the alternation takes over
 _SCAN_N = 2000  # up to this size, both shape regions are also scanned on a grid
 _SMOOTH_GRID = np.geomspace(1.05, SHAPE_MAX, 12)  # shapes of the b > 1 scan
 _ROUGH_GRID = (0.2, 0.35, 0.5, 0.65, 0.8, 0.9, 0.97)  # shapes of the b < 1 scan (n > 400)
@@ -317,7 +318,7 @@ def _joint_newton(xs: np.ndarray, m: float, b: float, ws: _Workspace) -> tuple[f
     best = -math.inf
     base_m, base_b, step_m, step_u, halvings = m, b, 0.0, 0.0, 0
     d, lg, p, w = ws.d, ws.lg, ws.p, ws.q
-    for _ in range(30):
+    for _ in range(_NEWTON_PASSES):
         j, k = _ties(xs, m)
         np.subtract(xs, m, out=d)
         np.abs(d, out=lg)
@@ -635,6 +636,7 @@ def _rough_local(
     n = xs.size
     m = _loc_discrete(xs, b, m, ws, _search_window(n, b))
     searched_b = b  # shape of the last full-window search
+    last_m, last_b = math.nan, math.nan
     for _ in range(100):
         lg = _log_dist(xs, m, ws)  # kept intact by the location searches
         b = _shape_given_loc(lg, n, b, ws, SHAPE_MIN, 1.0)
@@ -648,6 +650,13 @@ def _rough_local(
         m_new = _loc_discrete(xs, b, m, ws, half)
         if abs(m_new - m) <= tol:
             return _finish(xs, m, b, ws, lg)
+        if b == last_b and m_new == last_m:
+            # a 2-cycle between candidates of equal S_b (b = 1 with an even n: both middle
+            # observations minimise S_1): ℓ cannot increase further; keep the better
+            here = _finish(xs, m, b, ws, lg)
+            there = _finish(xs, m_new, b, ws)
+            return there if there[3] > here[3] else here
+        last_m, last_b = m, b
         m = m_new
     return _finish(xs, m, b, ws)
 
