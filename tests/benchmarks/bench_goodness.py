@@ -51,7 +51,7 @@ def main() -> int:
 
     # --- parameters estimated: refit every simulated sample
     res = goodness_of_fit(x, samples=SAMPLES, seed=1)
-    t_ours = _best(lambda: goodness_of_fit(x, samples=SAMPLES, seed=1), 3)
+    t_ours = _best(lambda: goodness_of_fit(x, samples=SAMPLES, seed=1), 1)
     sp = stats.goodness_of_fit(stats.gennorm, x, statistic="ad", n_mc_samples=SCIPY_SAMPLES, rng=1)
     t_sp_small = _best(
         lambda: stats.goodness_of_fit(

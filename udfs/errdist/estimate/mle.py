@@ -9,23 +9,23 @@ S_b(m) = Σ|xᵢ−m|^b, which leaves the profile log-likelihood
 
     ℓ(m, b) = n[ln b − ln 2 − ln Γ(1/b) − (1/b)·ln((b/n)·S_b(m)) − 1/b].
 
-Maximising it over m means minimising S_b(m):
+Maximising it over m means minimising S_b(m). The search (:func:`_search_regions`) treats the
+two shape regions separately and returns the larger maximum (b = 1 belongs to both):
 
-* b > 1: S_b is strictly convex in m, so the location solves
-  T(m) = Σ sign(xᵢ−m)|xᵢ−m|^(b−1) = 0. From the moment start (median, shape from the
-  kurtosis) a joint Newton iteration in (m, u = ln b) with analytic derivatives usually
-  converges in 3–4 passes over the data (see :func:`_joint_newton`).
 * b ≤ 1: S_b is concave between neighbouring observations, so its minimum sits at an
-  observation (b = 1 gives the median); S_b is evaluated at the observations within
-  0.2·√n/b + 8 ranks of the current location (all of them when n ≤ 400), the window
-  growing until the best candidate is well inside it (see :func:`_loc_discrete`).
+  observation (b = 1 gives the median). n ≤ 400: every observation with its own best shape
+  (:func:`_rough_exhaustive`). Otherwise the exact shape for the current location and the best
+  observation within 0.2·√n/b + 8 ranks of it (:func:`_loc_discrete`) alternate, and for
+  n ≤ 2,000 a second alternation starts from the best point of a scan over a few shapes.
+* b ≥ 1: S_b is strictly convex in m, so the location solves
+  T(m) = Σ sign(xᵢ−m)|xᵢ−m|^(b−1) = 0. A joint Newton iteration in (m, u = ln b) from the
+  moment start (:func:`_joint_newton`), else the alternation of exact shape and exact location;
+  for n ≤ 2,000 also the exact profile on 12 shapes and a second search from the best of them.
 
-Otherwise (and always for b ≤ 1) the exact shape for the current location — a bracketed
-Newton iteration on ∂ℓ/∂u over u ∈ [ln SHAPE_MIN, ln SHAPE_MAX] — and the exact location
-for the current shape alternate until the location no longer moves: the fixed point is a
-joint maximum of ℓ(m, b), and with a = ((b/n)S_b(m))^(1/b) the maximum-likelihood estimate.
-The tests check it against scipy's generic fit, a brute-force grid and an exhaustive search
-over observations.
+The likelihood has no maximum over all shapes (it grows without limit as b → 0 with m at an
+observation, fastest at a repeated value), so shapes are searched in [SHAPE_MIN, SHAPE_MAX];
+with repeated values the b ≤ 1 region is also searched from SHAPE_MIN. What is proven and what
+is only checked against a brute force is set out in docs/methodology.md.
 
 Derivatives used, with p = |x−m|^b, L = ln|x−m|, S0 = Σp, S1 = Σp·L, S2 = Σp·L², and
 c = ψ(1/b) + ln(b·S0/n):
