@@ -45,9 +45,9 @@ def _check(xs: np.ndarray) -> tuple[float, float, float]:
     return best - ll, spread / max(1.0, abs(ll)), ll
 
 
-def windows(name: str, w: int, stride: int, limit: int) -> None:
+def windows(name: str, w: int, stride: int, limit: int, offset: int = 0) -> None:
     r = _returns(name)
-    ends = list(range(w, r.size + 1, stride))
+    ends = list(range(w + offset, r.size + 1, stride))
     if len(ends) > limit:  # evenly spread over the series
         ends = [ends[int(k)] for k in np.linspace(0, len(ends) - 1, limit)]
     t0 = time.process_time()
@@ -67,7 +67,8 @@ def windows(name: str, w: int, stride: int, limit: int) -> None:
     one = np.array([_mle_sorted(x)[3] for x in rows])
     batch_diff = float(np.max(np.abs(bl - one) / np.maximum(1.0, np.abs(one))))
     print(
-        f"{name} window {w}: {len(ends)} windows (stride {stride}), short {short}, "
+        f"{name} window {w}: {len(ends)} windows (stride {stride}, offset {offset}), "
+        f"short {short}, "
         f"largest brute-fit {worst:.3g}, start changes loglik on {moved}, "
         f"batched vs one-row (first {rows.shape[0]} windows) max rel diff {batch_diff:.2g}, "
         f"{time.process_time() - t0:.0f} s CPU",
@@ -99,12 +100,15 @@ def main() -> None:
     ap.add_argument("--windows", default="250,1000,5000")
     ap.add_argument("--series", default="sp500,nasdaq")
     ap.add_argument("--limit5000", type=int, default=40)
+    ap.add_argument("--offset", type=int, default=0, help="first window ends this much later")
+    ap.add_argument("--no-rounded", action="store_true", help="skip the rounded-price samples")
     args = ap.parse_args()
     for name in args.series.split(","):
         for w in (int(v) for v in args.windows.split(",")):
             stride = args.stride if w < 5000 else max(args.stride, 100)
-            windows(name, w, stride, args.limit5000 if w >= 5000 else 10**9)
-    rounded_prices()
+            windows(name, w, stride, args.limit5000 if w >= 5000 else 10**9, args.offset)
+    if not args.no_rounded:
+        rounded_prices()
 
 
 if __name__ == "__main__":
