@@ -239,6 +239,7 @@ def _core_fit_report(book: Book, f: Formula, args: list[Any]) -> list[list[Any]]
         "moments AIC": mom.aic,
         "MLE shape at search bound": bool(mle.at_bound),
         "MLE note": mle.warning or "none",
+        "repeated values": float(mle.ties),
     }
     got = book.result(f)
     return [

@@ -1,6 +1,6 @@
 """Benchmark: rolling VaR (1,000 maximum-likelihood fits, window 250) and the "iid" horizon rule.
 
-Target: 1,000 rolling MLE fits with window 250 in under 2 s. Reference measured side by side
+Target: rolling 250-day MLE fits at <= 0.2 ms per window on real data (1,000 windows). Reference measured side by side
 in the same run: scipy.stats.gennorm.fit (scipy's generic maximum-likelihood optimiser) on the
 first windows of the same series, extrapolated per fit. Data: NASDAQ Composite log returns
 shipped with arch (``arch.data.nasdaq.load()``) when available, else an invented seeded
@@ -45,21 +45,22 @@ def main() -> None:
 
     best = np.inf
     for _ in range(3):
-        t0 = time.perf_counter()
+        t0 = time.process_time()
         out = rolling_var(r, WINDOW, 0.99)
-        best = min(best, time.perf_counter() - t0)
+        best = min(best, time.process_time() - t0)
     assert np.isfinite(out[WINDOW:]).all()
     per_fit = best / FITS
     print(
         f"errdist rolling_var: {FITS} fits, window {WINDOW}: {best:.3f} s "
-        f"({per_fit * 1e3:.3f} ms per fit)  target < 2 s: {'OK' if best < 2.0 else 'MISSED'}"
+        f"({per_fit * 1e3:.3f} ms per fit)  target <= 0.2 ms per window: "
+        f"{'OK' if per_fit <= 2e-4 else 'MISSED by %.1fx' % (per_fit / 2e-4)}"
     )
 
-    t0 = time.perf_counter()
+    t0 = time.process_time()
     for t in range(WINDOW, WINDOW + SCIPY_FITS):
         b, m, a = stats.gennorm.fit(r[t - WINDOW : t])
         stats.gennorm.ppf(0.01, b, loc=m, scale=a)
-    scipy_per_fit = (time.perf_counter() - t0) / SCIPY_FITS
+    scipy_per_fit = (time.process_time() - t0) / SCIPY_FITS
     print(
         f"scipy gennorm.fit:   {SCIPY_FITS} fits: {scipy_per_fit * 1e3:.3f} ms per fit "
         f"(1,000 fits ~ {scipy_per_fit * FITS:.1f} s)"

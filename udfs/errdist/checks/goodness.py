@@ -305,11 +305,9 @@ def _refit_rows(
 ) -> tuple[NDArray[np.float64], NDArray[np.float64], NDArray[np.float64]]:
     """MLE (loc, scale, shape) of every row of ascending-sorted simulated data.
 
-    The exact MLE of :func:`errdist.estimate.fit`, for all rows at once
-    (:func:`errdist.estimate.mle_batch.mle_sorted_rows`: the one-sample search of
-    :func:`errdist.estimate.mle._mle_sorted` run on every row together, rows it cannot settle refitted
-    by ``_mle_sorted`` itself), warm-started at the shape the rows were simulated with (the
-    start only changes where the search begins, not the maximum it finds).
+    The exact MLE of :func:`errdist.estimate.fit` on every row
+    (:func:`errdist.estimate.mle_batch.mle_sorted_rows`: the one-sample fit row by row, so each
+    refit equals ``fit`` on that row exactly; ``shape_hint`` does not change the result).
     """
     loc, scale, shape, _ = mle_sorted_rows(sim_sorted, shape_hint)
     return loc, scale, shape

@@ -34,10 +34,9 @@ def rolling_var(
     A NaN return at day :math:`t` does not stop the forecast for day :math:`t`.
 
     ``method="mle"`` runs the exact maximum-likelihood fit (:func:`errdist.estimate.fit`'s
-    engine) on each window from its default start, so every forecast equals
-    ``value_at_risk(confidence, *fit(window))`` exactly — the same figures ERRDIST_FIT gives on
-    that window. (Warm starts from the previous window were measured: no faster with the
-    current engine, and they moved the shape by up to 7e-8 relative in flat likelihoods.)
+    engine, which searches both shape regions and does not depend on a start) on each window,
+    so every forecast equals ``value_at_risk(confidence, *fit(window))`` exactly — the same
+    figures ERRDIST_FIT gives on that window.
     ``"moments"`` uses the spreadsheet-statistics fit.
 
     Parameters

@@ -82,7 +82,14 @@ class Fit:
     at_bound : bool
         True when the MLE shape sits at SHAPE_MIN or SHAPE_MAX.
     warning : str
-        Explanation when ``at_bound`` (empty otherwise).
+        Explanation when ``at_bound`` (empty otherwise); it says when the lower bound was
+        reached at a repeated value (tied data, see ``ties``).
+    ties : int
+        Number of observations equal to another, earlier one (n minus the number of distinct
+        values). Repeated values (prices rounded to a tick, stale prices) make the
+        likelihood of a continuous law grow without limit as the shape goes to 0 at a
+        repeated value; the MLE is the maximum over [SHAPE_MIN, SHAPE_MAX], and when that is
+        the lower bound at a repeated value the warning says so.
     """
 
     loc: float
@@ -96,6 +103,7 @@ class Fit:
     bic: float
     at_bound: bool
     warning: str
+    ties: int = 0
 
 
 def _check_params(loc: float, scale: float, shape: float) -> tuple[float, float, float]:
@@ -144,7 +152,15 @@ def loglik(data: Any, loc: float, scale: float, shape: float) -> float:
 
 
 def _make_fit(
-    loc: float, scale: float, shape: float, method: str, n: int, n_dropped: int, ll: float
+    loc: float,
+    scale: float,
+    shape: float,
+    method: str,
+    n: int,
+    n_dropped: int,
+    ll: float,
+    ties: int = 0,
+    loc_count: int = 1,
 ) -> Fit:
     at_bound = False
     warning = ""
@@ -154,6 +170,16 @@ def _make_fit(
             warning = (
                 f"shape at upper bound {SHAPE_MAX:g}: data look lighter-tailed than any "
                 "error law in range; treat tail figures with care"
+            )
+        elif shape <= SHAPE_MIN * (1.0 + 1e-12) and loc_count > 1:
+            at_bound = True
+            warning = (
+                f"shape at lower bound {SHAPE_MIN:g} at a repeated value: {loc_count} of {n} "
+                f"observations equal loc ({ties} repeated values in all). With tied data "
+                "(prices rounded to a tick, stale prices) the likelihood grows without limit "
+                "as the shape goes to 0 at a repeated value, so the fit stops at the bound; "
+                "the tail figures of this fit are not usable: remove stale prices or use "
+                "coarser (e.g. weekly) returns"
             )
         elif shape <= SHAPE_MIN * (1.0 + 1e-12):
             at_bound = True
@@ -174,6 +200,7 @@ def _make_fit(
         bic=N_PARAMS * math.log(n) - 2.0 * ll,
         at_bound=at_bound,
         warning=warning,
+        ties=int(ties),
     )
 
 
@@ -196,8 +223,9 @@ def fit(
         scale = :func:`solve_scale` (STDEV.S, shape) — the spreadsheet's own statistics, so
         a workbook doing the same by hand gets the same figures.
     start : Fit or float, optional
-        A previous fit (or a shape) used only as a starting point of the MLE search; it
-        speeds up repeated fits and does not change the result. Ignored for moments.
+        Accepted for compatibility and checked (a shape > 0), but not used: the MLE search
+        always starts from the moment shape and searches both shape regions, so its result
+        cannot depend on a start. Ignored for moments.
 
     Returns
     -------
@@ -242,7 +270,9 @@ def fit(
         sd = _std(x, _mean(x))
         scale = solve_scale(sd, shape)
         loc = float(np.median(x))
-        return _make_fit(loc, scale, shape, "moments", n, n_dropped, _loglik(x, loc, scale, shape))
+        ties = int(n - np.unique(x).size)
+        ll = _loglik(x, loc, scale, shape)
+        return _make_fit(loc, scale, shape, "moments", n, n_dropped, ll, ties)
     xs = _sorted(x)
     if xs[0] == xs[-1]:
         _require_spread(xs, 0.0, "data")
@@ -252,4 +282,6 @@ def fit(
         if not (math.isfinite(start_shape) and start_shape > 0.0):
             raise DomainError(f"start shape must be > 0, got {start_shape:g}")
     loc, scale, shape, ll = _mle_sorted(xs, start_shape)
-    return _make_fit(loc, scale, shape, "mle", n, n_dropped, ll)
+    ties = int(np.count_nonzero(xs[1:] == xs[:-1]))
+    loc_count = int(np.searchsorted(xs, loc, "right") - np.searchsorted(xs, loc, "left"))
+    return _make_fit(loc, scale, shape, "mle", n, n_dropped, ll, ties, loc_count)

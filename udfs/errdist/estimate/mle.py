@@ -9,23 +9,23 @@ S_b(m) = Σ|xᵢ−m|^b, which leaves the profile log-likelihood
 
     ℓ(m, b) = n[ln b − ln 2 − ln Γ(1/b) − (1/b)·ln((b/n)·S_b(m)) − 1/b].
 
-Maximising it over m means minimising S_b(m):
+Maximising it over m means minimising S_b(m). The search (:func:`_search_regions`) treats the
+two shape regions separately and returns the larger maximum (b = 1 belongs to both):
 
-* b > 1: S_b is strictly convex in m, so the location solves
-  T(m) = Σ sign(xᵢ−m)|xᵢ−m|^(b−1) = 0. From the moment start (median, shape from the
-  kurtosis) a joint Newton iteration in (m, u = ln b) with analytic derivatives usually
-  converges in 3–4 passes over the data (see :func:`_joint_newton`).
 * b ≤ 1: S_b is concave between neighbouring observations, so its minimum sits at an
-  observation (b = 1 gives the median); S_b is evaluated at the observations within
-  0.2·√n/b + 8 ranks of the current location (all of them when n ≤ 400), the window
-  growing until the best candidate is well inside it (see :func:`_loc_discrete`).
+  observation (b = 1 gives the median). n ≤ 400: every observation with its own best shape
+  (:func:`_rough_exhaustive`). Otherwise the exact shape for the current location and the best
+  observation within 0.2·√n/b + 8 ranks of it (:func:`_loc_discrete`) alternate, and for
+  n ≤ 2,000 a second alternation starts from the best point of a scan over a few shapes.
+* b ≥ 1: S_b is strictly convex in m, so the location solves
+  T(m) = Σ sign(xᵢ−m)|xᵢ−m|^(b−1) = 0. A joint Newton iteration in (m, u = ln b) from the
+  moment start (:func:`_joint_newton`), else the alternation of exact shape and exact location;
+  for n ≤ 2,000 also the exact profile on 12 shapes and a second search from the best of them.
 
-Otherwise (and always for b ≤ 1) the exact shape for the current location — a bracketed
-Newton iteration on ∂ℓ/∂u over u ∈ [ln SHAPE_MIN, ln SHAPE_MAX] — and the exact location
-for the current shape alternate until the location no longer moves: the fixed point is a
-joint maximum of ℓ(m, b), and with a = ((b/n)S_b(m))^(1/b) the maximum-likelihood estimate.
-The tests check it against scipy's generic fit, a brute-force grid and an exhaustive search
-over observations.
+The likelihood has no maximum over all shapes (it grows without limit as b → 0 with m at an
+observation, fastest at a repeated value), so shapes are searched in [SHAPE_MIN, SHAPE_MAX];
+with repeated values the b ≤ 1 region is also searched from SHAPE_MIN. What is proven and what
+is only checked against a brute force is set out in docs/methodology.md.
 
 Derivatives used, with p = |x−m|^b, L = ln|x−m|, S0 = Σp, S1 = Σp·L, S2 = Σp·L², and
 c = ψ(1/b) + ln(b·S0/n):
@@ -45,6 +45,7 @@ import threading
 import numpy as np
 from scipy.special import gammaln, psi, zeta
 
+from errdist.estimate.mle_rows import profile_rows, shape_rows, smooth_locations
 from errdist.law.moment_solvers import solve_shape
 
 __all__ = ["SHAPE_MAX", "SHAPE_MIN"]
@@ -69,6 +70,10 @@ _HALF_WINDOW = 8  # minimum half-width (ranks) of the b <= 1 candidate window
 _SHELLS = ((4.0, 22), (16.0, 11), (256.0, 5), (4096.0, 3))
 
 
+_NEWTON_PASSES = 30  # joint Newton passes before the alternation takes over
+_SCAN_N = 2000  # up to this size, both shape regions are also scanned on a grid
+_SMOOTH_GRID = np.geomspace(1.05, SHAPE_MAX, 12)  # shapes of the b > 1 scan
+_ROUGH_GRID = (0.2, 0.35, 0.5, 0.65, 0.8, 0.9, 0.97)  # shapes of the b < 1 scan (n > 400)
 _CALL_COST = 1000  # overhead of one numpy call, in element operations (cost model)
 _TINY = 5e-324
 _ZERO_LOG = -1e300  # stands for ln 0: exp(b·it) = 0 and 0·it = 0, without NaN
@@ -166,16 +171,25 @@ def _log_dist(xs: np.ndarray, m: float, ws: _Workspace) -> np.ndarray:
     return lg
 
 
-def _shape_given_loc(lg: np.ndarray, n: int, b0: float, ws: _Workspace) -> float:
+def _shape_given_loc(
+    lg: np.ndarray,
+    n: int,
+    b0: float,
+    ws: _Workspace,
+    b_min: float = SHAPE_MIN,
+    b_max: float = SHAPE_MAX,
+) -> float:
     """Maximise the profile ℓ(m, b) over b for a fixed location.
 
     ``lg`` holds ln|xᵢ−m|, with −1e300 in place of −inf for observations equal to m
-    (they add 0 to every sum). Bracketed Newton in u = ln b on [ln SHAPE_MIN, ln SHAPE_MAX]; returns the
-    bound when ∂ℓ/∂u does not change sign inside.
+    (they add 0 to every sum). Bracketed Newton in u = ln b on [ln b_min, ln b_max] (default
+    [SHAPE_MIN, SHAPE_MAX]; the region searches use [SHAPE_MIN, 1] and [1, SHAPE_MAX]);
+    returns the bound itself when ∂ℓ/∂u does not change sign inside.
     """
-    u_lo, u_hi = _U_MIN, _U_MAX
+    u_min, u_max = math.log(b_min), math.log(b_max)
+    u_lo, u_hi = u_min, u_max
     lo_tested = hi_tested = False
-    u = min(max(math.log(b0), _U_MIN), _U_MAX)
+    u = min(max(math.log(b0), u_min), u_max)
     p = ws.p[: lg.size]
     pl = ws.q[: lg.size]
     for _ in range(100):
@@ -191,20 +205,20 @@ def _shape_given_loc(lg: np.ndarray, n: int, b0: float, ws: _Workspace) -> float
         gu = 1.0 + c * inv - r1
         if gu > 0.0:
             u_lo, lo_tested = u, True
-            if u >= _U_MAX:
-                return SHAPE_MAX
+            if u >= u_max:
+                return b_max
         else:
             u_hi, hi_tested = u, True
-            if u <= _U_MIN:
-                return SHAPE_MIN
+            if u <= u_min:
+                return b_min
         guu = -c * inv - _trigamma(inv) * inv * inv + inv + r1 - b * var
         un = u - gu / guu if guu < 0.0 else math.nan
         newton = u_lo < un < u_hi
         if not newton:
             if not (un < u_hi) and not hi_tested:
-                un = _U_MAX
+                un = u_max
             elif not (un > u_lo) and not lo_tested:
-                un = _U_MIN
+                un = u_min
             else:
                 un = 0.5 * (u_lo + u_hi)
         if newton and abs(un - u) <= 1e-7:
@@ -304,7 +318,7 @@ def _joint_newton(xs: np.ndarray, m: float, b: float, ws: _Workspace) -> tuple[f
     best = -math.inf
     base_m, base_b, step_m, step_u, halvings = m, b, 0.0, 0.0, 0
     d, lg, p, w = ws.d, ws.lg, ws.p, ws.q
-    for _ in range(30):
+    for _ in range(_NEWTON_PASSES):
         j, k = _ties(xs, m)
         np.subtract(xs, m, out=d)
         np.abs(d, out=lg)
@@ -497,48 +511,189 @@ def _mle_sorted(
     """Maximum-likelihood (loc, scale, shape, loglik) of a sorted, finite, spread sample.
 
     Lean entry point for repeated fits (rolling windows, bootstrap): no input checks.
-    ``start_shape`` only changes where the search starts (default: the moment estimate).
-    For b > 1 a joint Newton iteration in (m, ln b) from the moment start usually
-    converges in a few steps; otherwise (and for b ≤ 1) the exact shape for the current
-    location and the exact location for the current shape alternate until the location
-    no longer moves.
+    ``start_shape`` is accepted for compatibility and ignored: every search starts from the
+    moment shape, so the result cannot depend on it (see :func:`_search_regions`).
     """
+    del start_shape
     n = xs.size
     ws = _workspace(n)
-    b = (
-        _moment_shape(xs, ws)
-        if start_shape is None
-        else min(max(start_shape, SHAPE_MIN), SHAPE_MAX)
-    )
+    return _search_regions(xs, _moment_shape(xs, ws), ws)
+
+
+def _search_regions(xs: np.ndarray, b0: float, ws: _Workspace) -> tuple[float, float, float, float]:
+    """Best of the region maxima: b ≤ 1 (discrete location) and b ≥ 1 (smooth location).
+
+    The profile ℓ(m, b) changes character at b = 1 (location an observation below, the
+    root of a smooth score above), and real samples often have one local maximum on each
+    side within a few per cent of b = 1 (the S&P 500 250-day windows: about 1 in 200). A
+    single search from one start finds the maximum on its own side only, so both regions
+    are searched, each from the start shape clipped into it, and the larger maximum wins
+    (b = 1 belongs to both, so a region whose search ends at b = 1 can never beat the other).
+    With exact repeated values, the b ≤ 1 region is also searched from SHAPE_MIN: there the
+    likelihood grows as b → 0 at a repeated value, and the corner (repeated value,
+    SHAPE_MIN) can be the maximum on the searched range (see :mod:`errdist.estimate.fit`).
+    """
+    n = xs.size
     half = n // 2
-    m = float(xs[half]) if n % 2 else 0.5 * (float(xs[half - 1]) + float(xs[half]))
-    tol = 1e-15 * (float(xs[-1] - xs[0]) + abs(m))
+    med = float(xs[half]) if n % 2 else 0.5 * (float(xs[half - 1]) + float(xs[half]))
+    tol = 1e-15 * (float(xs[-1] - xs[0]) + abs(med))
+    smooth_first = b0 > 1.0
+    best: tuple[float, float, float, float] | None = None
+    starts: list[tuple[bool, float]] = [(smooth_first, b0), (not smooth_first, b0)]
+    if bool(np.any(xs[1:] == xs[:-1])):
+        starts.append((False, SHAPE_MIN))
+    for smooth, b in starts:
+        if smooth:
+            res = _smooth_region(xs, med, max(b, 1.0), tol, ws)
+        else:
+            res = _rough_region(xs, med, min(b, 1.0), tol, ws)
+        if best is None or res[3] > best[3]:
+            best = res
+    assert best is not None
+    return best
+
+
+def _smooth_region(
+    xs: np.ndarray, m: float, b: float, tol: float, ws: _Workspace
+) -> tuple[float, float, float, float]:
+    """Maximum of ℓ(m, b) over b ∈ [1, SHAPE_MAX] (S_b convex in m).
+
+    A local search (joint Newton, else the alternation) from ``b``; for n ≤ _SCAN_N also the
+    exact profile max_m ℓ(m, b) on a grid of shapes (:data:`_SMOOTH_GRID`), and a second local
+    search from the best grid shape when it beats the first result: small samples can have
+    two maxima for b > 1 (one near 1, one near 2), and a single search finds the one on its
+    side.
+    """
+    res = _smooth_local(xs, m, b, tol, ws)
+    if xs.size > _SCAN_N:
+        return res
+    n = xs.size
+    locs = smooth_locations(xs, _SMOOTH_GRID, res[0], 1e-8)
+    s0 = np.exp(_SMOOTH_GRID[:, None] * np.log(np.abs(xs[None, :] - locs[:, None]) + _TINY))
+    ll = profile_rows(s0.sum(axis=1), n, _SMOOTH_GRID)
+    k = int(np.argmax(ll))
+    if ll[k] > res[3]:
+        other = _smooth_local(xs, float(locs[k]), float(_SMOOTH_GRID[k]), tol, ws)
+        if other[3] > res[3]:
+            return other
+    return res
+
+
+def _smooth_local(
+    xs: np.ndarray, m: float, b: float, tol: float, ws: _Workspace
+) -> tuple[float, float, float, float]:
+    """Local maximum of ℓ(m, b) over b ∈ [1, SHAPE_MAX] from (m, b)."""
+    n = xs.size
     if b > 1.0:
         m, b, ok = _joint_newton(xs, m, b, ws)
         if ok:
             return _finish(xs, m, b, ws)
-    searched_b = math.nan  # shape of the last full-window search
-    if b <= 1.0:  # heavy tails expected: search the location at the start shape first
-        m = _loc_discrete(xs, b, m, ws, _search_window(n, b))
-        searched_b = b
+        b = max(b, 1.0)
     for _ in range(100):
-        lg = _log_dist(xs, m, ws)  # kept intact by the location searches
-        b = _shape_given_loc(lg, n, b, ws)
-        if b > 1.0:
-            m_new = _loc_smooth(xs, b, m, tol, ws)
-        else:
-            # full window unless one was searched at a shape within 5 %; then a re-check
-            # of the neighbourhood with a quarter of the window suffices
-            half = _search_window(n, b)
-            if abs(b - searched_b) <= 0.05 * b:
-                half = max(_HALF_WINDOW, half // 4)
-            else:
-                searched_b = b
-            m_new = _loc_discrete(xs, b, m, ws, half)
+        lg = _log_dist(xs, m, ws)  # kept intact by the location search
+        b = _shape_given_loc(lg, n, b, ws, 1.0, SHAPE_MAX)
+        m_new = _median(xs) if b == 1.0 else _loc_smooth(xs, b, m, tol, ws)
         if abs(m_new - m) <= tol:
             return _finish(xs, m, b, ws, lg)
         m = m_new
     return _finish(xs, m, b, ws)
+
+
+def _rough_region(
+    xs: np.ndarray, m: float, b: float, tol: float, ws: _Workspace
+) -> tuple[float, float, float, float]:
+    """Maximum of ℓ(m, b) over b ∈ [SHAPE_MIN, 1] (location an observation).
+
+    n ≤ 400: every observation with its own best shape (:func:`_rough_exhaustive`).
+    Otherwise the alternation of exact shape and windowed best observation from ``b``, and
+    for n ≤ _SCAN_N a second one from the best (observation, shape) of a scan over the shapes
+    :data:`_ROUGH_GRID` when that beats the first result.
+    """
+    n = xs.size
+    if n <= _EXHAUSTIVE_N:
+        return _rough_exhaustive(xs, b, ws)
+    res = _rough_local(xs, m, b, tol, ws)
+    if n > _SCAN_N:
+        return res
+    # scan: the best observation at a few shapes; a second search from the best of them
+    best_ll, best_m, best_b = -math.inf, m, b
+    for bk in _ROUGH_GRID:
+        mk = _loc_discrete(xs, bk, m, ws, _search_window(n, bk))
+        llk = _finish(xs, mk, bk, ws)[3]
+        if llk > best_ll:
+            best_ll, best_m, best_b = llk, mk, bk
+    if best_ll > res[3]:
+        other = _rough_local(xs, best_m, best_b, tol, ws)
+        if other[3] > res[3]:
+            return other
+    return res
+
+
+def _rough_local(
+    xs: np.ndarray, m: float, b: float, tol: float, ws: _Workspace
+) -> tuple[float, float, float, float]:
+    """Local maximum over b ∈ [SHAPE_MIN, 1] by the alternation from (m, b)."""
+    n = xs.size
+    m = _loc_discrete(xs, b, m, ws, _search_window(n, b))
+    searched_b = b  # shape of the last full-window search
+    last_m, last_b = math.nan, math.nan
+    for _ in range(100):
+        lg = _log_dist(xs, m, ws)  # kept intact by the location searches
+        b = _shape_given_loc(lg, n, b, ws, SHAPE_MIN, 1.0)
+        # full window unless one was searched at a shape within 5 %; then a re-check
+        # of the neighbourhood with a quarter of the window suffices
+        half = _search_window(n, b)
+        if abs(b - searched_b) <= 0.05 * b:
+            half = max(_HALF_WINDOW, half // 4)
+        else:
+            searched_b = b
+        m_new = _loc_discrete(xs, b, m, ws, half)
+        if abs(m_new - m) <= tol:
+            return _finish(xs, m, b, ws, lg)
+        if b == last_b and m_new == last_m:
+            # a 2-cycle between candidates of equal S_b (b = 1 with an even n: both middle
+            # observations minimise S_1): ℓ cannot increase further; keep the better
+            here = _finish(xs, m, b, ws, lg)
+            there = _finish(xs, m_new, b, ws)
+            return there if there[3] > here[3] else here
+        last_m, last_b = m, b
+        m = m_new
+    return _finish(xs, m, b, ws)
+
+
+def _rough_exhaustive(
+    xs: np.ndarray, b0: float, ws: _Workspace
+) -> tuple[float, float, float, float]:
+    """Best (observation, shape ≤ 1) pair over every observation (small samples).
+
+    For b ≤ 1 the location is an observation (S_b is concave between neighbours), so the
+    maximum over b ∈ [SHAPE_MIN, 1] is the largest of the per-observation maxima
+    max_b ℓ(xⱼ, b). Each is found by the bracketed Newton iteration in ln b
+    (:func:`errdist.estimate.mle_rows.shape_rows`, all observations at once) and compared
+    with ℓ at both ends b = SHAPE_MIN and b = 1, so a location whose likelihood keeps growing
+    towards SHAPE_MIN (a repeated value) is seen even when it also has an interior peak.
+    """
+    n = xs.size
+    lg = np.subtract(xs[None, :], xs[:, None])
+    np.abs(lg, out=lg)
+    with np.errstate(divide="ignore"):
+        np.log(lg, out=lg)
+    np.maximum(lg, _ZERO_LOG, out=lg)
+    b, ll = shape_rows(lg, b0, SHAPE_MIN, 1.0)
+    for edge in (SHAPE_MIN, 1.0):
+        p = np.multiply(lg, edge)
+        np.exp(p, out=p)
+        ll_edge = profile_rows(p.sum(axis=1), n, np.full(n, edge))
+        better = ll_edge > ll
+        b[better], ll[better] = edge, ll_edge[better]
+    j = int(np.argmax(ll))
+    return _finish(xs, float(xs[j]), float(b[j]), ws)
+
+
+def _median(xs: np.ndarray) -> float:
+    """Median of sorted data (minimiser of S_1; midpoint of the two middle values)."""
+    half = xs.size // 2
+    return float(xs[half]) if xs.size % 2 else 0.5 * (float(xs[half - 1]) + float(xs[half]))
 
 
 def _finish(

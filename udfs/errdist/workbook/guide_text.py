@@ -143,6 +143,13 @@ CAUTIONS: list[tuple[str, str]] = [
         "Estimation error: the shape estimated from a few hundred returns is uncertain; "
         "the moments fit is sensitive to single extreme returns.",
     ),
+    (
+        "bullet",
+        "Repeated returns (stale prices, prices rounded to a tick): the fit report counts "
+        "them; when many returns are equal the maximum-likelihood shape stops at its lower "
+        "bound 0.1 at the repeated value and the MLE note says so — then do not use its tail "
+        "figures; remove stale prices or use weekly returns.",
+    ),
     ("bullet", "Not investment advice: this is a calculation tool, not a recommendation."),
     (
         "bullet",

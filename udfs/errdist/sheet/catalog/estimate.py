@@ -53,6 +53,7 @@ def _fit_report(data: np.ndarray) -> list[list[Any]]:
         ]
     rows.append(["MLE shape at search bound", bool(mle.at_bound)])
     rows.append(["MLE note", mle.warning or "none"])
+    rows.append(["repeated values", mle.ties])
     return rows
 
 
@@ -102,7 +103,8 @@ ENTRIES: tuple[Entry, ...] = (
         "with log-likelihood and AIC, and whether the MLE shape hit its search bound.",
         notes="Rows: n used; blanks skipped (blank cells between the first and last number); "
         "mean; median; STDEV.S; SKEW; KURT; MLE loc, scale, shape, log-likelihood, AIC; the "
-        "same five for the moments fit; MLE shape at search bound (TRUE/FALSE); MLE note. "
+        "same five for the moments fit; MLE shape at search bound (TRUE/FALSE); MLE note (says "
+        "when tied data stopped the shape at its lower bound); repeated values (ties). "
         "When the moments fit is impossible (KURT <= -1.2) its five rows show the reason "
         "instead of numbers and the rest of the table stands.",
     ),

@@ -17,6 +17,7 @@ NAME = "Calibration"
 FIT_REPORT_FMTS: dict[str, str] = {
     "n used": "int",
     "blanks skipped": "int",
+    "repeated values": "int",
     "mean": "pct3",
     "median": "pct3",
     "STDEV.S": "pct3",
