@@ -135,7 +135,11 @@ def format_summary(summary: Mapping[str, Any], path: Path, seconds: float) -> st
     )
     exc = summary.get("backtest_exceptions")
     zone = summary.get("backtest_zone") or "n/a"
-    lines.append(f"  backtest: {_num(exc, '.0f')} exceptions, {zone} zone")
+    # The count and the zone are those of the last 250 days (the Basel window), not of the
+    # whole backtest: say so.
+    lines.append(
+        f"  backtest, last 250 days: {_num(exc, '.0f')} exceptions of the 99% VaR, {zone} zone"
+    )
     lines.append(f"wrote {path.resolve()} in {seconds:.1f} s")
     return "\n".join(lines)
 
