@@ -236,3 +236,31 @@ def test_too_short_for_the_workbook_names_the_file(tmp_path, monkeypatch, capsys
     assert err.count("\n") == 0
     assert f"{src} up to --as-of 2026-03-06: the workbook needs at least 260 prices" in err
     assert sorted(tmp_path.iterdir()) == [src]
+
+
+def test_refresh_reads_the_named_sheet_and_warns_of_repeated_prices(tmp_path, capsys):
+    openpyxl = pytest.importorskip("openpyxl", reason="openpyxl is not installed")
+    n = MIN_RETURNS + 20
+    dates = pd.bdate_range("2026-01-01", periods=n)
+    prices = 100 * np.exp(np.cumsum(np.random.default_rng(5).normal(0, 0.01, n)))
+    prices[5:9] = prices[5]  # a NAV carried over four days
+    wb = openpyxl.Workbook()
+    wb.active.title = "Cover"
+    wb.active.append(["Meridian fund, daily NAV"])
+    ws = wb.create_sheet("NAV")
+    ws.append(["Date", "NAV"])
+    for d, p in zip(dates, prices, strict=True):
+        ws.append([d.to_pydatetime(), float(p)])
+    src = tmp_path / "nav.xlsx"
+    wb.save(src)
+    out = tmp_path / "risk.xlsx"
+    assert cli.main(["refresh", "--prices", str(src), "--out", str(out)]) == 2
+    err = capsys.readouterr().err
+    assert "--sheet" in err and "'NAV'" in err and not out.exists()
+    assert cli.main(["refresh", "--prices", str(src), "--sheet", "NAV", "--out", str(out)]) == 0
+    captured = capsys.readouterr()
+    assert CALLS[-1]["n"] == n and out.exists()
+    assert f"from {src}, sheet 'NAV' (rows 2-{n + 1}" in captured.out
+    # Sheet row 1 is the header: the four equal prices are sheet rows 7-10.
+    assert "warning: " in captured.err and "rows 7-10 (4 x " in captured.err, captured.err
+    assert "3 prices repeat the one before unchanged" in captured.err

@@ -148,8 +148,9 @@ def test_live_book_shows_name_errors_and_the_copy_none_with_four_charts(
 ) -> None:
     _need_tools()
     live_pages = _pages(_to_pdf(TEMPLATE, tmp_path / "live"))
-    # Without the add-in LibreOffice recalculates the spilled ERRDIST_ ranges into #NAME?.
-    assert _error_texts(live_pages) > 1000
+    # Without the add-in LibreOffice recalculates the spilled ERRDIST_ ranges into #NAME?
+    # (measured: 238 on the printed pages, whose data sheets print their notes only).
+    assert _error_texts(live_pages) > 100
     pdf = _to_pdf(frozen, tmp_path / "frozen")
     pages = _pages(pdf)
     assert _error_texts(pages) == 0

@@ -16,6 +16,7 @@ import json
 import math
 import sys
 import time
+import warnings
 from pathlib import Path
 from typing import Any, TextIO
 
@@ -81,6 +82,7 @@ def add_parser(sub: Any) -> argparse.ArgumentParser:
     p.add_argument("--date-column", dest="date_column", default=None)
     p.add_argument("--price-column", dest="price_column", default=None)
     p.add_argument("--as-of", dest="as_of", default=None, help="last date to use (YYYY-MM-DD)")
+    p.add_argument("--sheet", default=None, help="sheet of an .xlsx prices file (default: first)")
     p.set_defaults(func=run_backtest)
     return p
 
@@ -133,6 +135,7 @@ def run_backtest(args: argparse.Namespace) -> int:
     from errdist.checks.model_backtest import backtest_models
     from errdist.data.prices_io import read_prices
     from errdist.data.returns import returns_from_prices
+    from errdist.data.stale_prices import StalePricesWarning
 
     confidence = _number("--confidence", args.confidence)
     if not 0.5 <= confidence < 1.0:
@@ -162,12 +165,17 @@ def run_backtest(args: argparse.Namespace) -> int:
         require_arch()
 
     src = Path(args.prices)
-    prices = read_prices(
-        src,
-        date_column=getattr(args, "date_column", None),
-        price_column=getattr(args, "price_column", None),
-        as_of=getattr(args, "as_of", None),
-    )
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore", StalePricesWarning)  # printed below, once
+        prices = read_prices(
+            src,
+            date_column=getattr(args, "date_column", None),
+            price_column=getattr(args, "price_column", None),
+            as_of=getattr(args, "as_of", None),
+            sheet=getattr(args, "sheet", None),
+        )
+    if prices.attrs.get("warning"):
+        print(f"warning: {prices.attrs['warning']}", file=sys.stderr, flush=True)
     returns = returns_from_prices(prices["price"].to_numpy(dtype=float))
     first = max(window, fit_window)
     if returns.size <= first:

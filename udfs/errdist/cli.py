@@ -151,6 +151,11 @@ def build_parser() -> argparse.ArgumentParser:
         default=None,
         help="name of the price column (default: detected)",
     )
+    refresh.add_argument(
+        "--sheet",
+        default=None,
+        help="the sheet of an .xlsx prices file that holds the prices (default: the first)",
+    )
     refresh.add_argument("--force", action="store_true", help="overwrite an existing file")
     refresh.add_argument(
         "--values-copy",

@@ -100,6 +100,7 @@ class _Table:
     header: list[str]
     rows: list[tuple[int, list[Any]]]  # (file row number, cells)
     decimal_comma: bool = False
+    header_row: int | None = None  # the header's row number when title rows were skipped
 
 
 def _rows_text(rows: Sequence[int], limit: int = 10) -> str:
@@ -191,6 +192,9 @@ def _read_csv(path: Path) -> _Table:
     if sep_line:
         delimiter = sep_line.group(1)
     else:
+        # The first line with a delimiter: a title line above the column names may hold none.
+        delimited = (ln for ln in text.splitlines()[:20] if any(d in ln for d in ",;\t"))
+        first = next(delimited, first)
         counts = {d: first.count(d) for d in (",", ";", "\t")}
         delimiter = max(counts, key=lambda d: counts[d]) if any(counts.values()) else ","
     reader = _bounded_rows(csv.reader(io.StringIO(text, newline=""), delimiter=delimiter), path)
@@ -215,6 +219,8 @@ def _read_csv(path: Path) -> _Table:
         rows.append((line, [c.strip() for c in cells]))
     if header is None:
         raise InputTypeError(f"{path}: the file is empty")
+    skipped = _skip_title_rows(_Table(header, rows, delimiter == ";"), path)
+    header, rows = skipped.header, skipped.rows
     wide = [r for r, cells in rows if any(not _blank(c) for c in cells[len(header) :])]
     if wide:
         hint = '; a number with a thousands separator must be in quotes ("1,234.56")'
@@ -222,7 +228,7 @@ def _read_csv(path: Path) -> _Table:
             f"{path}: {_rows_text(wide)}: more values than the {len(header)} column headers"
             + (hint if delimiter == "," else "")
         )
-    return _Table(header, rows, decimal_comma=delimiter == ";")
+    return _Table(header, rows, decimal_comma=delimiter == ";", header_row=skipped.header_row)
 
 
 def _first_sheet_rows_calamine(path: Path) -> list[list[Any]] | None:
@@ -257,10 +263,15 @@ def _first_sheet_rows_openpyxl(path: Path) -> list[list[Any]]:
 USE_CALAMINE = True
 
 
-def _read_xlsx(path: Path) -> _Table:
+def _read_xlsx(path: Path, sheet_name: str | None = None) -> _Table:
     safety.inspect_xlsx(path)
     safety.defuse_xml()
-    sheet = _first_sheet_rows_calamine(path) if USE_CALAMINE else None
+    if sheet_name is not None:
+        from errdist.data.prices_sheets import named_sheet_rows
+
+        sheet = named_sheet_rows(path, sheet_name)
+    else:
+        sheet = _first_sheet_rows_calamine(path) if USE_CALAMINE else None
     if sheet is None:
         sheet = _first_sheet_rows_openpyxl(path)
     header: list[str] | None = None
@@ -273,8 +284,35 @@ def _read_xlsx(path: Path) -> _Table:
             continue
         rows.append((r, cells))
     if header is None:
-        raise InputTypeError(f"{path}: the first sheet is empty")
+        which = f"the sheet {sheet_name!r}" if sheet_name is not None else "the first sheet"
+        raise InputTypeError(f"{path}: {which} is empty" + _sheet_hint(path, sheet_name))
     return _Table(header, rows)
+
+
+def _sheet_hint(path: Path, sheet_name: str | None) -> str:
+    from errdist.data.prices_sheets import sheet_hint
+
+    return sheet_hint(path, sheet_name)
+
+
+def _skip_title_rows(table: _Table, path: Path) -> _Table:
+    """The table with its header moved down past any title rows above the column names
+    (:func:`errdist.data.prices_sheets.locate_header`)."""
+    from errdist.data.prices_sheets import locate_header
+
+    lines: list[tuple[int | None, list[Any]]] = [(None, list(table.header)), *table.rows]
+    h = locate_header(
+        lines,
+        is_date=_is_date_value,
+        is_number=lambda v: _parse_number(v, table.decimal_comma) is not None,
+        blank=_blank,
+        source=path,
+    )
+    if h == 0:
+        return table
+    header = ["" if c is None else str(c).strip() for c in lines[h][1]]
+    rows = [(r, cells) for r, cells in lines[h + 1 :] if r is not None]
+    return _Table(header, rows, table.decimal_comma, header_row=lines[h][0])
 
 
 # ----------------------------------------------------------------------------------------------
@@ -484,6 +522,7 @@ def read_prices(
     date_column: str | None = None,
     price_column: str | None = None,
     as_of: str | dt.date | None = None,
+    sheet: str | None = None,
 ) -> pd.DataFrame:
     """Read a prices file and validate it.
 
@@ -496,13 +535,21 @@ def read_prices(
         Header names of the columns (case-insensitive); detected when omitted.
     as_of : str or date, optional
         Last date to use (``YYYY-MM-DD``); later rows are ignored. Default: the last date.
+    sheet : str, optional
+        The workbook sheet that holds the prices (case-insensitive); default the first.
+        Title rows above the header row are skipped on any sheet and in a CSV file
+        (:mod:`errdist.data.prices_sheets`).
 
     Returns
     -------
     pandas.DataFrame
         Columns ``date`` (``datetime64``) and ``price`` (float), oldest first. ``attrs`` holds
         ``source``, ``date_column``, ``price_column``, ``rows`` (file rows of the oldest and
-        newest price used) and ``newest_first`` (the file was sorted newest first).
+        newest price used), ``newest_first`` (the file was sorted newest first),
+        ``header_row`` (its row number when title rows above it were skipped, else None),
+        ``sheet`` (the sheet read, None for the first) and ``warning`` (repeated prices,
+        :mod:`errdist.data.stale_prices`; ``""`` when none - also issued as a
+        :class:`~errdist.data.stale_prices.StalePricesWarning`).
 
     Raises
     ------
@@ -522,14 +569,18 @@ def read_prices(
     if not p.is_file():
         raise InputTypeError(f"{p}: not a file")
     suffix = p.suffix.lower()
+    if sheet is not None and suffix not in (".xlsx", ".xlsm"):
+        raise InputTypeError(f"{p}: --sheet applies to .xlsx workbooks, not to this file")
     if suffix in (".xlsx", ".xlsm"):
-        table = _read_xlsx(p)
+        table = _read_xlsx(p, sheet)
     elif suffix in (".csv", ".txt", ".tsv", ""):
         table = _read_csv(p)
     elif suffix == ".xls":
         raise InputTypeError(f"{p}: old .xls workbooks are not read; save as .xlsx or CSV")
     else:
         raise InputTypeError(f"{p}: expected a .csv or .xlsx file")
+    if table.rows:
+        table = _skip_title_rows(table, p)
     limit = safety.env_limit("ERRDIST_MAX_PRICE_ROWS", MAX_PRICE_ROWS)
     if len(table.rows) > limit:
         raise InputTypeError(
@@ -538,7 +589,7 @@ def read_prices(
             f"variable ERRDIST_MAX_PRICE_ROWS={len(table.rows)}"
         )
     if not table.rows:
-        raise InsufficientDataError(f"{p}: no data rows under the header")
+        raise InsufficientDataError(f"{p}: no data rows under the header" + _sheet_hint(p, sheet))
 
     try:
         if date_column is not None:
@@ -552,7 +603,7 @@ def read_prices(
         if pcol == dcol:
             raise InputTypeError("the date and price columns must differ")
     except InputTypeError as exc:
-        raise InputTypeError(f"{p}: {exc}") from None
+        raise InputTypeError(f"{p}: {exc}" + _sheet_hint(p, sheet)) from None
 
     row_numbers = [r for r, _ in table.rows]
     raw_dates = _column(table, dcol)
@@ -680,5 +731,20 @@ def read_prices(
         price_column=table.header[pcol],
         rows=(row_numbers[0], row_numbers[keep - 1]),
         newest_first=newest_first,
+        header_row=table.header_row,
+        sheet=sheet,
     )
+    _warn_stale(df, row_numbers[:keep], p)
     return df
+
+
+def _warn_stale(df: pd.DataFrame, rows: list[int], path: Path) -> None:
+    """Put the repeated-prices warning in ``df.attrs["warning"]`` and issue it."""
+    import warnings
+
+    from errdist.data.stale_prices import StalePricesWarning, stale_warning
+
+    text = stale_warning(df["price"].tolist(), rows, path)
+    df.attrs["warning"] = text
+    if text:
+        warnings.warn(text, StalePricesWarning, stacklevel=3)

@@ -1,4 +1,4 @@
-"""The template's native charts, one per printed page of the Charts sheet.
+"""The template's native charts, two per printed page of the Charts sheet.
 
 1. Empirical vs fitted CDF (from ERRDIST_EMPIRICAL on the Fit check sheet);
 2. histogram vs fitted density (FREQUENCY counts as densities, ERRDIST_PDF and the normal
@@ -16,8 +16,12 @@ from collections.abc import Mapping
 
 from errdist.workbook.layout import ChartSpec, SheetPlan, absref
 
-ROWS_PER_PAGE = 36
-"""Rows of the Charts sheet per printed page (landscape A4, one chart a page)."""
+CHARTS_PER_PAGE = 2
+"""Charts on one printed page of the Charts sheet (portrait A4, one above the other)."""
+ROWS_PER_CHART = 35
+"""Rows of the Charts sheet per chart: its caption, the chart (``CHART_SIZE``), a gap."""
+ROWS_PER_PAGE = 2 + CHARTS_PER_PAGE * ROWS_PER_CHART
+"""Rows of the Charts sheet per printed page (the first two hold the sheet's title)."""
 CHART_SIZE = (1000, 640)
 """Chart size in pixels (width, height)."""
 
@@ -211,7 +215,7 @@ def _returns_var(keys: Mapping[str, str], backtest: str) -> ChartSpec | None:
 def add_charts(
     sp: SheetPlan, keys: Mapping[str, str], *, fitcheck: str, backtest: str, fund: str
 ) -> None:
-    """Lay out the chart pages on the Charts sheet ``sp``, one chart per printed page."""
+    """Lay out the chart pages on the Charts sheet ``sp``, two charts per printed page."""
     sp.width("A", 9, "P")
     sp.text("A1", f"Charts — {fund}", "title")
     specs = [
@@ -226,12 +230,14 @@ def add_charts(
     ]
     breaks = []
     for i, spec in enumerate(specs):
-        top = i * ROWS_PER_PAGE
-        if i:
-            breaks.append(top)
+        page, slot = divmod(i, CHARTS_PER_PAGE)
+        if page and not slot:
+            breaks.append(page * ROWS_PER_PAGE)
+        top = page * ROWS_PER_PAGE + 1 + slot * ROWS_PER_CHART  # 0-based caption row - 1
         spec.anchor = f"A{top + 3}"
         sp.text(f"A{top + 2}", f"Chart {i + 1} of {len(specs)}: {spec.title}", "label_b")
         sp.charts.append(spec)
     sp.page_breaks = breaks
     sp.fit_width = True
-    sp.print_area = f"A1:P{max(1, len(specs)) * ROWS_PER_PAGE}"
+    pages = max(1, -(-len(specs) // CHARTS_PER_PAGE))
+    sp.print_area = f"A1:P{pages * ROWS_PER_PAGE}"

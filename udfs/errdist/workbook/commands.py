@@ -19,6 +19,7 @@ import re
 import sys
 import threading
 import time
+import warnings
 from collections.abc import Callable, Iterator, Mapping
 from contextlib import contextmanager
 from pathlib import Path
@@ -135,7 +136,11 @@ def format_summary(summary: Mapping[str, Any], path: Path, seconds: float) -> st
     )
     exc = summary.get("backtest_exceptions")
     zone = summary.get("backtest_zone") or "n/a"
-    lines.append(f"  backtest: {_num(exc, '.0f')} exceptions, {zone} zone")
+    # The count and the zone are those of the last 250 days (the Basel window), not of the
+    # whole backtest: say so.
+    lines.append(
+        f"  backtest, last 250 days: {_num(exc, '.0f')} exceptions of the 99% VaR, {zone} zone"
+    )
     lines.append(f"wrote {path.resolve()} in {seconds:.1f} s")
     return "\n".join(lines)
 
@@ -204,11 +209,13 @@ def run_refresh(args: argparse.Namespace) -> int:
     """``errdist refresh``: read a prices file, build the month's workbook, print a summary.
 
     Reads ``args.prices`` (:func:`errdist.data.prices_io.read_prices` with
-    ``args.date_column``, ``args.price_column``, ``args.as_of``) and writes ``args.out``
+    ``args.date_column``, ``args.price_column``, ``args.as_of``, ``args.sheet``; a warning
+    about repeated prices goes to standard error) and writes ``args.out``
     atomically, never over an existing file unless ``args.force``. The fund name is taken
     from the prices file's name (:func:`fund_name_from_file`).
     """
     from errdist.data.prices_io import read_prices
+    from errdist.data.stale_prices import StalePricesWarning
 
     t0 = time.perf_counter()
     out = Path(args.out)
@@ -221,13 +228,17 @@ def run_refresh(args: argparse.Namespace) -> int:
     copy = _values_copy_target(args, out, force)
     progress = _Progress()
     as_of = getattr(args, "as_of", None)
-    with progress.step("reading prices"):
+    with progress.step("reading prices"), warnings.catch_warnings():
+        warnings.simplefilter("ignore", StalePricesWarning)  # printed below, once
         prices = read_prices(
             src,
             date_column=getattr(args, "date_column", None),
             price_column=getattr(args, "price_column", None),
             as_of=as_of,
+            sheet=getattr(args, "sheet", None),
         )
+    if prices.attrs.get("warning"):
+        print(f"warning: {prices.attrs['warning']}", file=sys.stderr, flush=True)
     try:
         result = _build(
             prices,
@@ -243,8 +254,11 @@ def run_refresh(args: argparse.Namespace) -> int:
     first, last = prices.attrs.get("rows", (None, None))
     if first is not None:
         order = ", newest first" if prices.attrs.get("newest_first") else ""
+        if prices.attrs.get("header_row"):
+            order += f", header row {prices.attrs['header_row']} under title rows"
+        sheet = f", sheet {prices.attrs['sheet']!r}" if prices.attrs.get("sheet") else ""
         print(
-            f"read {len(prices):,} prices from {src} (rows {min(first, last)}-"
+            f"read {len(prices):,} prices from {src}{sheet} (rows {min(first, last)}-"
             f"{max(first, last)}{order}, columns {prices.attrs.get('date_column')!r} and "
             f"{prices.attrs.get('price_column')!r})"
         )

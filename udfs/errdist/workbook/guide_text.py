@@ -99,22 +99,45 @@ REFRESH: list[tuple[str, str]] = [
 ]
 
 INSTALL: list[tuple[str, str]] = [
-    ("h2", "Installing the add-in (summary — see docs/install.md)"),
+    ("h2", "Live formulas: installing the add-in (summary — see docs/install.md)"),
+    (
+        "wrap",
+        "You need none of this to read the figures: errdist saved every result with the file. "
+        "The add-in is for recalculating inside the spreadsheet after you change a yellow cell.",
+    ),
     (
         "step",
         "1. Install Python 3.10 or later and the package:  pip install errdist  (from your "
         "firm's package index)\n    or, in a clone of the errdist repository:  pip install .",
     ),
-    ("step", "2. Install the xlwings add-in into the spreadsheet program:  xlwings addin install"),
     (
         "step",
-        "3. Open this workbook; the xlwings.conf sheet names the module "
-        "errdist.sheet.xlwings_udfs, so the ERRDIST_ functions load with it.",
+        "2. Excel on Windows: install the xlwings add-in  (xlwings addin install)  and set its "
+        "Interpreter to your environment's python.exe on the xlwings ribbon tab.",
     ),
     (
         "step",
-        "4. Recalculate (Ctrl+Alt+F9). Without the add-in the saved values stay on "
-        "screen until a recalculation.",
+        "3. Bring the ERRDIST_ functions into Excel. errdist writes this book as .xlsx, with no macros, "
+        "so the functions do not come with it (the xlwings.conf sheet only names the Python "
+        "module, errdist.sheet.xlwings_udfs). Import Functions on the xlwings tab, or import "
+        "the file from  errdist vba  in the VBA editor, then save the book as .xlsm.",
+    ),
+    (
+        "step",
+        "4. Each month errdist refresh writes a new .xlsx, again without the functions. To "
+        "import them only once, put them in an Excel add-in: import them into an empty "
+        "book, save it as .xlam and tick it under File > Options > Add-ins (docs/install.md).",
+    ),
+    (
+        "step",
+        "5. Recalculate (Ctrl+Alt+F9). Without the functions the saved values stay on screen "
+        "until a recalculation, which turns the ERRDIST_ cells into errors (see above).",
+    ),
+    (
+        "step",
+        "6. LibreOffice Calc (Linux, Windows, macOS):  errdist libreoffice install  once puts "
+        "the functions into your LibreOffice profile; every book, each month's .xlsx included, "
+        "then calculates them live.",
     ),
 ]
 

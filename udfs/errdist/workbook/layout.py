@@ -106,6 +106,53 @@ class ChartSpec:
     secondary_series: list[dict[str, object]] = field(default_factory=list)
 
 
+@dataclass(frozen=True)
+class PrintSetup:
+    """How a sheet prints, declared once in its sheet module as ``PRINT = PrintSetup(...)``.
+
+    Printing the whole book should give a short pack to read, not every row of data: the
+    template applies each module's declaration after the sheet is laid out
+    (:meth:`SheetPlan.apply_print`). Every printed page is fitted to the paper's width.
+
+    Attributes
+    ----------
+    landscape : bool or None
+        Paper orientation; ``None`` keeps what the layout chose.
+    pages_tall : int
+        Shrink the print area to fit this many pages tall (0: as many pages as it needs).
+        Manual page breaks are dropped then: the spreadsheet ignores them when fitting to a
+        number of pages, and a fitted page needs none.
+    data : bool
+        A data sheet (prices, returns, long spilled columns): only ``area`` prints - its
+        notes - and its last two rows (left empty by the layout) say which cells were left
+        out and how to print them. The area is widened to the right as far as its longest
+        line of text runs, so that no note is cut off at the edge of the print.
+    area : str
+        A1 range printed instead of the laid-out print area (``""``: keep it).
+    repeat_header : bool
+        Keep the laid-out header rows repeated at the top of every printed page. Set it to
+        ``False`` where the printed part fits one page or the header row also carries values.
+    """
+
+    landscape: bool | None = None
+    pages_tall: int = 0
+    data: bool = False
+    area: str = ""
+    repeat_header: bool = True
+
+
+DATA_PRINT_NOTE: tuple[str, str] = (
+    "Printing shows these notes only: the data in {data} is left out of the printed pack.",
+    "To print it, clear the print area (Excel: Page Layout > Print Area > Clear Print Area; "
+    "LibreOffice: Format > Print Ranges > Clear).",
+)
+"""The two lines a data sheet prints in place of its rows (see :attr:`PrintSetup.data`)."""
+
+CHARS_PER_WIDTH_UNIT = 1.2
+"""Characters of running text per unit of column width (one digit of the default font),
+measured on LibreOffice's PDF export, whose fallback font is wider than Calibri."""
+
+
 @dataclass
 class SheetPlan:
     """Everything written on one worksheet."""
@@ -121,6 +168,8 @@ class SheetPlan:
     repeat_rows: tuple[int, int] | None = None
     """0-based first and last rows printed at the top of every page (a table's header)."""
     fit_width: bool = True
+    pages_tall: int = 0
+    """Fit the print area to this many pages tall (0: no limit); manual breaks then unused."""
     page_breaks: list[int] = field(default_factory=list)
     tab_color: str = ""
     hidden: bool = False
@@ -144,10 +193,8 @@ class SheetPlan:
         """
         row, col = xl_cell_to_rowcol(cell)
         width = sum(self.col_widths.get(c, 8.43) for c in range(col, col + span))
-        # About 1.2 characters of running text per unit of column width (a unit is one
-        # digit of the default font; measured on LibreOffice's PDF export, whose fallback
-        # font is wider than Calibri, so the estimate never cuts a line off).
-        chars_per_line = max(1.0, width * 1.2)
+        # CHARS_PER_WIDTH_UNIT: so the estimate never cuts a line off.
+        chars_per_line = max(1.0, width * CHARS_PER_WIDTH_UNIT)
         lines = 0
         for part in value.split("\n"):
             lines += max(1, -(-len(part) // int(chars_per_line)))
@@ -213,6 +260,58 @@ class SheetPlan:
         last = xl_cell_to_rowcol(f"{last_col or first_col}1")[1]
         for c in range(first, last + 1):
             self.col_widths[c] = width
+
+    def apply_print(self, setup: PrintSetup) -> None:
+        """Apply a sheet module's print declaration (:class:`PrintSetup`) to this sheet.
+
+        For a data sheet the last cell of ``setup.area`` gets :data:`DATA_PRINT_NOTE` (it
+        must be empty), naming the rows the print leaves out.
+        """
+        if setup.landscape is not None:
+            self.landscape = setup.landscape
+        if setup.pages_tall:
+            self.pages_tall = setup.pages_tall
+            self.page_breaks = []
+        if not setup.repeat_header:
+            self.repeat_rows = None
+        if setup.area:
+            self.print_area = setup.area
+        if setup.data:
+            self._print_data_notes(setup.area)
+
+    def _print_data_notes(self, area: str) -> None:
+        if ":" not in area:
+            raise ValueError(f"the data sheet {self.name!r} needs a printed area of 2+ rows")
+        first, last = area.split(":")
+        (r0, c0), (r1, c1) = xl_cell_to_rowcol(first), xl_cell_to_rowcol(last)
+        spots = [(r1 - 1, c0), (r1, c0)]
+        if r1 - 1 < r0 or any((e.row, e.col) in spots for e in self.entries):
+            raise ValueError(f"{self.name}: the last two rows of {area} must be empty")
+        outside = [
+            e
+            for e in self.entries
+            if not (r0 <= e.row <= r1 and c0 <= e.col <= c1 and e.rows == e.cols == 1)
+        ]
+        if not outside:
+            return
+        top, left = min(e.row for e in outside), min(e.col for e in outside)
+        bottom = max(e.row + e.rows - 1 for e in outside)
+        right = max(e.col + e.cols - 1 for e in outside)
+        data = f"{cell(top, left)}:{cell(bottom, right)}"
+        for (row, col), line in zip(spots, DATA_PRINT_NOTE, strict=True):
+            self.text(cell(row, col), line.format(data=data), "note")
+        # Widen the area to the right until its longest line of text fits.
+        for e in self.entries:
+            if e.kind != "text" or not (r0 <= e.row <= r1 and c0 <= e.col <= c1):
+                continue
+            need = len(str(e.value)) / CHARS_PER_WIDTH_UNIT
+            c = e.col
+            have = self.col_widths.get(c, 8.43)
+            while have < need:
+                c += 1
+                have += self.col_widths.get(c, 8.43)
+            c1 = max(c1, c)
+        self.print_area = f"{first}:{cell(r1, c1)}"
 
     def formula_cells(self) -> Iterator[tuple[str, Entry]]:
         """Every cell filled by a formula (each cell of a spill), with its entry."""

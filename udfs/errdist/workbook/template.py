@@ -174,9 +174,18 @@ def layout_workbook(
     # Each sheet reads the key cells of the sheets laid out before it; the Guide goes last.
     for module in sorted(SHEET_MODULES, key=lambda m: getattr(m, "LAYOUT_LAST", False)):
         module.layout(plan, ctx)
+        _apply_print(plan, module)
     plan.sheets.sort(key=lambda sheet: SHEETS.index(sheet.name))
     plan.keys = dict(ctx.keys)
     return plan
+
+
+def _apply_print(plan: Plan, module: ModuleType) -> None:
+    """Apply the sheet module's print declaration (``PRINT``), if it has one and laid out
+    its sheet."""
+    setup = getattr(module, "PRINT", None)
+    if setup is not None and any(s.name == module.NAME for s in plan.sheets):
+        plan.sheet(module.NAME).apply_print(setup)
 
 
 def _default_evaluator() -> Evaluator:

@@ -278,6 +278,62 @@ def _add_chart(wb: xlsxwriter.Workbook, ws: Worksheet, spec: ChartSpec) -> None:
     ws.insert_chart(spec.anchor, chart, {"object_position": 3})
 
 
+def _area_bounds(sp: SheetPlan) -> tuple[int, int, int, int] | None:
+    """0-based (first row, first col, last row, last col) of the print area, if any."""
+    if not sp.print_area:
+        return None
+    first, _, last = sp.print_area.replace("$", "").partition(":")
+    (r0, c0), (r1, c1) = xl_cell_to_rowcol(first), xl_cell_to_rowcol(last or first)
+    return r0, c0, r1, c1
+
+
+def check_repeat_rows(sp: SheetPlan) -> None:
+    """Refuse header rows, repeated on every printed page, that carry values.
+
+    A repeated row is printed again above each page's rows: a number or formula in it would
+    be shown on every page as if it belonged to each. Only text (headings) may be repeated.
+
+    Raises
+    ------
+    ValueError
+        Naming the first cell of a repeated row, inside the print area, that holds a value.
+    """
+    if sp.repeat_rows is None:
+        return
+    top, bottom = sp.repeat_rows
+    bounds = _area_bounds(sp)
+    for e in sp.entries:
+        if e.kind in ("text", "blank"):
+            continue
+        for r, c in e.cells():
+            if not top <= r <= bottom:
+                continue
+            if bounds is not None and not bounds[1] <= c <= bounds[3]:
+                continue
+            raise ValueError(
+                f"{sp.name}: row {r + 1} is repeated on every printed page but "
+                f"{xl_rowcol_to_cell_fast(r, c)} in it holds a value, not a heading"
+            )
+
+
+def print_title(sp: SheetPlan) -> str:
+    """The page header: the sheet's title when its print area leaves the title cell out.
+
+    The title is the text in A1 in the ``title`` format and the subtitle below it (see
+    :func:`errdist.workbook.sheets.tables.heading`), one line each; ``""`` when they are
+    printed anyway or the sheet has no title.
+    """
+    bounds = _area_bounds(sp)
+    if bounds is None or (bounds[0] == 0 and bounds[1] == 0):
+        return ""
+    lines = {
+        e.row: str(e.value)
+        for e in sp.entries
+        if e.col == 0 and e.kind == "text" and (e.row, e.fmt) in ((0, "title"), (1, "subtitle"))
+    }
+    return "\n".join(lines[r] for r in sorted(lines)) if 0 in lines else ""
+
+
 def _setup_sheet(ws: Worksheet, sp: SheetPlan) -> None:
     for col, width in sorted(sp.col_widths.items()):
         ws.set_column(col, col, width)
@@ -288,16 +344,21 @@ def _setup_sheet(ws: Worksheet, sp: SheetPlan) -> None:
     if sp.landscape:
         ws.set_landscape()
     ws.set_paper(9)  # A4
-    ws.set_margins(left=0.5, right=0.5, top=0.6, bottom=0.6)
+    title = print_title(sp)
+    # A page header of two lines needs room above the first printed row.
+    ws.set_margins(left=0.5, right=0.5, top=0.95 if title else 0.6, bottom=0.6)
     if sp.print_area:
         ws.print_area(sp.print_area)
     if sp.repeat_rows is not None:
+        check_repeat_rows(sp)
         ws.repeat_rows(*sp.repeat_rows)
-    if sp.fit_width:
-        ws.fit_to_pages(1, 0)
-    if sp.page_breaks:
+    if sp.fit_width or sp.pages_tall:
+        ws.fit_to_pages(1, sp.pages_tall)
+    if sp.page_breaks and not sp.pages_tall:
         ws.set_h_pagebreaks(sp.page_breaks)
-    ws.set_footer(f"&L{sp.name}&RPage &P of &N")
+    if title:
+        ws.set_header("&L" + title.replace("&", "&&"), {"margin": 0.3})
+    ws.set_footer(f"&L{sp.name.replace('&', '&&')}&RPage &P of &N")
     if sp.tab_color:
         ws.set_tab_color(sp.tab_color)
     if sp.zoom != 100:

@@ -6,6 +6,8 @@ Every sheet module holds:
 - ``layout(plan, ctx)`` - adds the sheet to the :class:`~errdist.workbook.layout.Plan`
   (or leaves it out when the worksheet functions it needs are missing), reading the key cells
   earlier sheets published in ``ctx.keys`` and publishing its own;
+- optionally ``PRINT`` - a :class:`~errdist.workbook.layout.PrintSetup`: how the sheet prints
+  (orientation, pages tall, a data sheet printing only its notes), applied after ``layout``;
 - optionally ``LAYOUT_LAST = True`` - laid out after the others (the Guide, whose key figures
   point at cells on later sheets).
 

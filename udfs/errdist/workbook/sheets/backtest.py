@@ -9,11 +9,14 @@ from __future__ import annotations
 
 import numpy as np
 
-from errdist.workbook.layout import Plan, absref, cell
+from errdist.workbook.layout import Plan, PrintSetup, absref, cell
 from errdist.workbook.sheets.context import Context, call_entry
 from errdist.workbook.sheets.tables import heading, label_value_fmts
 
 NAME = "Backtest"
+PRINT = PrintSetup(landscape=True, pages_tall=1, repeat_header=False)
+"""Printed: the summaries on one page (the print area set in ``layout``); the daily rows are
+data."""
 
 BACKTEST_WINDOW = 250
 """Rolling window of the backtest (returns)."""
@@ -132,7 +135,7 @@ def layout(plan: Plan, ctx: Context) -> None:
                     if col == "K" and str(rr[0]).strip().lower() == "zone":
                         ctx.keys["bt_zone"] = absref(NAME, cell(e.row + i, e.col + 1))
         ctx.keys.setdefault("bt_zone", ctx.keys["bt_zone_builtin"])
-    sp.print_area = f"A1:L{last}"
+    sp.print_area = f"H4:L{max((e.row + e.rows for e in sp.entries if e.col >= 7), default=4)}"
 
 
 def _rolling_stub(ctx: Context) -> np.ndarray:

@@ -7,12 +7,14 @@ built-ins only, is :mod:`errdist.workbook.sheets.builtin_moments`.
 
 from __future__ import annotations
 
-from errdist.workbook.layout import Plan, absref
+from errdist.workbook.layout import Plan, PrintSetup, absref
 from errdist.workbook.sheets import builtin_moments
 from errdist.workbook.sheets.context import Context, call_entry
 from errdist.workbook.sheets.tables import heading, label_value_fmts
 
 NAME = "Calibration"
+PRINT = PrintSetup(landscape=True, pages_tall=1)
+"""Printed on one landscape page."""
 
 FIT_REPORT_FMTS: dict[str, str] = {
     "n used": "int",

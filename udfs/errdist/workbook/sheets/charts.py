@@ -1,4 +1,4 @@
-"""The Charts sheet: one chart per printed page, drawn from Fit check and Backtest cells.
+"""The Charts sheet: two charts per printed page, drawn from Fit check and Backtest cells.
 
 The chart definitions live in :mod:`errdist.workbook.charts`.
 """
@@ -6,11 +6,13 @@ The chart definitions live in :mod:`errdist.workbook.charts`.
 from __future__ import annotations
 
 from errdist.workbook import charts as chart_pages
-from errdist.workbook.layout import Plan
+from errdist.workbook.layout import Plan, PrintSetup
 from errdist.workbook.sheets import backtest, fit_check
 from errdist.workbook.sheets.context import Context
 
 NAME = "Charts"
+PRINT = PrintSetup(landscape=False)
+"""Printed portrait, two charts a page (see :mod:`errdist.workbook.charts`)."""
 
 
 def layout(plan: Plan, ctx: Context) -> None:

@@ -8,11 +8,13 @@ rows, the empirical rows and the QQ line in ``ctx.keys``.
 
 from __future__ import annotations
 
-from errdist.workbook.layout import Plan, SheetPlan, absref, cell
+from errdist.workbook.layout import Plan, PrintSetup, SheetPlan, absref, cell
 from errdist.workbook.sheets.context import Context, call_entry
 from errdist.workbook.sheets.tables import column_fmts, heading, label_value_fmts
 
 NAME = "Fit check"
+PRINT = PrintSetup(landscape=True, pages_tall=1)
+"""Printed on one landscape page (the chart points to the right are data)."""
 
 HIST_BINS = 30
 """Number of histogram bins."""

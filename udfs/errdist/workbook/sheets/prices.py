@@ -2,10 +2,12 @@
 
 from __future__ import annotations
 
-from errdist.workbook.layout import Plan
+from errdist.workbook.layout import Plan, PrintSetup
 from errdist.workbook.sheets.context import Context
 
 NAME = "Prices"
+PRINT = PrintSetup(data=True, area="D1:D5")
+"""Printed: the notes; the prices are data."""
 
 
 def layout(plan: Plan, ctx: Context) -> None:

@@ -5,10 +5,12 @@ Publishes ``ctx.returns_range``, the returns column every later sheet analyses.
 
 from __future__ import annotations
 
-from errdist.workbook.layout import Plan, absref
+from errdist.workbook.layout import Plan, PrintSetup, absref
 from errdist.workbook.sheets.context import Context
 
 NAME = "Returns"
+PRINT = PrintSetup(data=True, area="D1:D4")
+"""Printed: the notes; the returns are data."""
 
 
 def layout(plan: Plan, ctx: Context) -> None:

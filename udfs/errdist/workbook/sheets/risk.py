@@ -9,11 +9,13 @@ from __future__ import annotations
 
 from collections.abc import Callable
 
-from errdist.workbook.layout import Plan, absref, cell
+from errdist.workbook.layout import Plan, PrintSetup, absref, cell
 from errdist.workbook.sheets.context import Context
 from errdist.workbook.sheets.tables import heading
 
 NAME = "Risk"
+PRINT = PrintSetup(landscape=True, pages_tall=1)
+"""Printed on one landscape page."""
 
 CONFIDENCES: tuple[float, ...] = (0.95, 0.99, 0.995)
 """Confidence levels of the Risk sheet."""
