@@ -89,7 +89,9 @@ _ISO_WITH_TIME = re.compile(r"^\d{4}-\d{2}-\d{2}[ T]\d{2}:\d{2}(:\d{2}(\.\d+)?)?
 
 
 @dataclass
-class _Table:
+class RawTable:
+    """A file's header and data rows as read, before any validation."""
+
     header: list[str]
     rows: list[tuple[int, list[Any]]]  # (file row number, cells)
     decimal_comma: bool = False
@@ -110,7 +112,7 @@ def _blank(v: Any) -> bool:
 # Reading the raw table
 
 
-def _read_csv(path: Path) -> _Table:
+def _read_csv(path: Path) -> RawTable:
     size = path.stat().st_size
     if size > MAX_CSV_BYTES:
         raise InputTypeError(
@@ -160,7 +162,7 @@ def _read_csv(path: Path) -> _Table:
             f"{path}: {_rows_text(wide)}: more values than the {len(header)} column headers"
             + (hint if delimiter == "," else "")
         )
-    return _Table(header, rows, decimal_comma=delimiter == ";")
+    return RawTable(header, rows, decimal_comma=delimiter == ";")
 
 
 def _first_sheet_rows_calamine(path: Path) -> list[list[Any]] | None:
@@ -195,7 +197,7 @@ def _first_sheet_rows_openpyxl(path: Path) -> list[list[Any]]:
 USE_CALAMINE = True
 
 
-def _read_xlsx(path: Path) -> _Table:
+def _read_xlsx(path: Path) -> RawTable:
     safety.inspect_xlsx(path)
     safety.defuse_xml()
     sheet = _first_sheet_rows_calamine(path) if USE_CALAMINE else None
@@ -212,7 +214,7 @@ def _read_xlsx(path: Path) -> _Table:
         rows.append((r, cells))
     if header is None:
         raise InputTypeError(f"{path}: the first sheet is empty")
-    return _Table(header, rows)
+    return RawTable(header, rows)
 
 
 # ----------------------------------------------------------------------------------------------
@@ -293,7 +295,7 @@ def _find_column(header: list[str], name: str, what: str, option: str) -> int:
     raise InputTypeError(f"no {what} column named {name!r} (option {option}); columns: {available}")
 
 
-def _column(table: _Table, i: int) -> list[Any]:
+def _column(table: RawTable, i: int) -> list[Any]:
     return [cells[i] if i < len(cells) else None for _, cells in table.rows]
 
 
@@ -311,7 +313,7 @@ def _is_date_value(v: Any) -> bool:
     return False
 
 
-def _detect_date_column(table: _Table) -> int:
+def _detect_date_column(table: RawTable) -> int:
     """The first column where most non-blank values read as dates (bad rows named later)."""
     for i in range(len(table.header)):
         vals = [v for v in _column(table, i) if not _blank(v)]
@@ -323,7 +325,7 @@ def _detect_date_column(table: _Table) -> int:
     )
 
 
-def _detect_price_column(table: _Table, date_col: int) -> int:
+def _detect_price_column(table: RawTable, date_col: int) -> int:
     candidates = []
     for i in range(len(table.header)):
         if i == date_col:
@@ -407,6 +409,27 @@ def read_prices(
         No such file.
     """
     p = Path(path)
+    table = read_table(p)
+    dcol, pcol = find_columns(p, table, date_column=date_column, price_column=price_column)
+    row_numbers = [r for r, _ in table.rows]
+    dates = check_dates(p, row_numbers, column(table, dcol), table.header[dcol])
+    prices = check_prices(
+        p, row_numbers, column(table, pcol), table.header[pcol], table.decimal_comma
+    )
+    df = order_and_cut(p, row_numbers, dates, prices, as_of)
+    df.attrs.update(date_column=table.header[dcol], price_column=table.header[pcol])
+    return df
+
+
+def read_table(path: str | os.PathLike[str]) -> RawTable:
+    """Read a CSV or .xlsx file's header and data rows, unvalidated (see :func:`read_prices`).
+
+    Raises
+    ------
+    FileNotFoundError, InputTypeError, InsufficientDataError
+        No such file; not a file, an unknown type or an unreadable file; no data rows.
+    """
+    p = Path(path)
     if not p.exists():
         raise FileNotFoundError(f"{p}: no such file")
     if not p.is_file():
@@ -422,7 +445,18 @@ def read_prices(
         raise InputTypeError(f"{p}: expected a .csv or .xlsx file")
     if not table.rows:
         raise InsufficientDataError(f"{p}: no data rows under the header")
+    return table
 
+
+def find_columns(
+    source: Any,
+    table: RawTable,
+    *,
+    date_column: str | None = None,
+    price_column: str | None = None,
+) -> tuple[int, int]:
+    """Indices of the date and price columns: named (case-insensitive) or detected."""
+    p = source
     try:
         if date_column is not None:
             dcol = _find_column(table.header, date_column, "date", "--date-column")
@@ -436,11 +470,22 @@ def read_prices(
             raise InputTypeError("the date and price columns must differ")
     except InputTypeError as exc:
         raise InputTypeError(f"{p}: {exc}") from None
+    return dcol, pcol
 
-    row_numbers = [r for r, _ in table.rows]
-    raw_dates = _column(table, dcol)
-    raw_prices = _column(table, pcol)
 
+def column(table: RawTable, i: int) -> list[Any]:
+    """The raw values of column ``i`` of every data row (None past a short row)."""
+    return _column(table, i)
+
+
+def check_dates(
+    source: Any, row_numbers: list[int], raw_dates: list[Any], column_name: str
+) -> list[dt.date]:
+    """Parse a date column; a blank or unreadable date raises, naming the rows.
+
+    ``source`` starts every message (the file, or the file and a series name).
+    """
+    p = source
     blank_dates = [r for r, v in zip(row_numbers, raw_dates, strict=True) if _blank(v)]
     if blank_dates:
         raise InputTypeError(f"{p}: {_rows_text(blank_dates)}: the date is blank")
@@ -454,10 +499,21 @@ def read_prices(
             bad = row_numbers
         shown = raw_dates[row_numbers.index(bad[0])]
         raise InputTypeError(
-            f"{p}: {_rows_text(bad)}: not a date in column {table.header[dcol]!r} "
+            f"{p}: {_rows_text(bad)}: not a date in column {column_name!r} "
             f"(e.g. {shown!r}); use YYYY-MM-DD, one format for the whole column"
         )
+    return dates  # type: ignore[return-value]
 
+
+def check_prices(
+    source: Any,
+    row_numbers: list[int],
+    raw_prices: list[Any],
+    column_name: str,
+    decimal_comma: bool = False,
+) -> list[float]:
+    """Parse a price column; a blank, text, zero, negative or infinite price raises."""
+    p = source
     blank_prices = [r for r, v in zip(row_numbers, raw_prices, strict=True) if _blank(v)]
     if blank_prices:
         raise InputTypeError(
@@ -466,7 +522,7 @@ def read_prices(
     prices: list[float] = []
     text_rows = []
     for r, v in zip(row_numbers, raw_prices, strict=True):
-        x = _parse_number(v, table.decimal_comma)
+        x = _parse_number(v, decimal_comma)
         if x is None:
             text_rows.append(r)
             x = math.nan
@@ -475,7 +531,7 @@ def read_prices(
         example = raw_prices[row_numbers.index(text_rows[0])]
         raise InputTypeError(
             f"{p}: {_rows_text(text_rows)}: the price is not a number "
-            f"(e.g. {example!r} in column {table.header[pcol]!r})"
+            f"(e.g. {example!r} in column {column_name!r})"
         )
     bad_price = [
         r for r, x in zip(row_numbers, prices, strict=True) if not (math.isfinite(x) and x > 0)
@@ -485,7 +541,29 @@ def read_prices(
         raise DomainError(
             f"{p}: {_rows_text(bad_price)}: prices must be > 0 and finite, got {example:g}"
         )
+    return prices
 
+
+def order_and_cut(
+    source: Any,
+    row_numbers: list[int],
+    dates: list[dt.date],
+    prices: list[float],
+    as_of: str | dt.date | None = None,
+) -> pd.DataFrame:
+    """Check the dates' order, apply ``as_of`` and the minimum length; the prices as a frame.
+
+    Repeated dates and any disorder other than newest-first throughout raise (a newest-first
+    series is reversed); so do an ``as_of`` before the first date or more than
+    ``MAX_AS_OF_GAP_DAYS`` after the last, and fewer than ``MIN_RETURNS + 1`` prices.
+
+    Returns
+    -------
+    pandas.DataFrame
+        Columns ``date`` and ``price``, oldest first; ``attrs``: ``source``, ``rows``,
+        ``newest_first``.
+    """
+    p = source
     seen: dict[dt.date, int] = {}
     dupes = []
     for r, d in zip(row_numbers, dates, strict=True):
@@ -518,7 +596,6 @@ def read_prices(
             f"order, e.g. row {b} ({dates[row_numbers.index(b)]}) comes after row {a} "
             f"({dates[row_numbers.index(a)]}); sort the file by date, oldest first"
         )
-
     keep = len(dates)
     cutoff = _parse_as_of(as_of)
     if cutoff is not None:
@@ -551,8 +628,6 @@ def read_prices(
     )
     df.attrs.update(
         source=str(p),
-        date_column=table.header[dcol],
-        price_column=table.header[pcol],
         rows=(row_numbers[0], row_numbers[keep - 1]),
         newest_first=newest_first,
     )
