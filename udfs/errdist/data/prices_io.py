@@ -112,12 +112,12 @@ def _blank(v: Any) -> bool:
 # Reading the raw table
 
 
-def _read_csv(path: Path) -> RawTable:
+def _read_csv(path: Path, max_bytes: int = MAX_CSV_BYTES) -> RawTable:
     size = path.stat().st_size
-    if size > MAX_CSV_BYTES:
+    if size > max_bytes:
         raise InputTypeError(
             f"{path}: file is {size / 1e6:.1f} MB, larger than the "
-            f"{MAX_CSV_BYTES / 1e6:.0f} MB limit for a prices file"
+            f"{max_bytes / 1e6:.0f} MB limit for a prices file"
         )
     raw = path.read_bytes()
     try:
@@ -421,8 +421,10 @@ def read_prices(
     return df
 
 
-def read_table(path: str | os.PathLike[str]) -> RawTable:
+def read_table(path: str | os.PathLike[str], *, max_csv_bytes: int = MAX_CSV_BYTES) -> RawTable:
     """Read a CSV or .xlsx file's header and data rows, unvalidated (see :func:`read_prices`).
+
+    ``max_csv_bytes`` is the largest CSV file accepted (default :data:`MAX_CSV_BYTES`).
 
     Raises
     ------
@@ -438,7 +440,7 @@ def read_table(path: str | os.PathLike[str]) -> RawTable:
     if suffix in (".xlsx", ".xlsm"):
         table = _read_xlsx(p)
     elif suffix in (".csv", ".txt", ".tsv", ""):
-        table = _read_csv(p)
+        table = _read_csv(p, max_csv_bytes)
     elif suffix == ".xls":
         raise InputTypeError(f"{p}: old .xls workbooks are not read; save as .xlsx or CSV")
     else:
@@ -457,11 +459,8 @@ def find_columns(
 ) -> tuple[int, int]:
     """Indices of the date and price columns: named (case-insensitive) or detected."""
     p = source
+    dcol = find_date_column(p, table, date_column)
     try:
-        if date_column is not None:
-            dcol = _find_column(table.header, date_column, "date", "--date-column")
-        else:
-            dcol = _detect_date_column(table)
         if price_column is not None:
             pcol = _find_column(table.header, price_column, "price", "--price-column")
         else:
@@ -471,6 +470,16 @@ def find_columns(
     except InputTypeError as exc:
         raise InputTypeError(f"{p}: {exc}") from None
     return dcol, pcol
+
+
+def find_date_column(source: Any, table: RawTable, date_column: str | None = None) -> int:
+    """Index of the date column: named (case-insensitive) or the first that holds dates."""
+    try:
+        if date_column is not None:
+            return _find_column(table.header, date_column, "date", "--date-column")
+        return _detect_date_column(table)
+    except InputTypeError as exc:
+        raise InputTypeError(f"{source}: {exc}") from None
 
 
 def column(table: RawTable, i: int) -> list[Any]:
