@@ -105,8 +105,6 @@ def columns(opts: JobOptions) -> list[str]:
     cols = [
         "series",
         "status",
-        "reason",
-        "notes",
         "first_date",
         "last_date",
         "n",
@@ -138,7 +136,7 @@ def columns(opts: JobOptions) -> list[str]:
             f"{m}_exceptions_last",
             f"{m}_zone",
         ]
-    return cols
+    return [*cols, "notes", "reason"]
 
 
 def _blank_row(name: str, opts: JobOptions) -> dict[str, Any]:

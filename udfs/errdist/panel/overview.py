@@ -95,7 +95,7 @@ def column_label(col: str, opts: JobOptions) -> tuple[str, str, float]:
         prefix = f"{m}_"
         if col.startswith(prefix) and col[len(prefix) :] in _MODEL_LABELS:
             text, fmt, width = _MODEL_LABELS[col[len(prefix) :]]
-            return f"Backtest {m}: {text.format(z=opts.zone_days)}", fmt, width
+            return f"{m} backtest: {text.format(z=opts.zone_days)}", fmt, max(width, 12)
     return col, "gen", 12
 
 
@@ -185,7 +185,7 @@ def _overview_sheet(
         label, _, width = column_label(col, opts)
         ws.write_string(_TOP, j, label, fmts["head_r"] if j > 1 else fmts["head"])
         ws.set_column(j, j, width)
-    ws.set_row(_TOP, 45)
+    ws.set_row(_TOP, 62)
     fmt_of = [fmts[column_label(c, opts)[1]] for c in cols]
     values = table.to_numpy(dtype=object)
     for i, row in enumerate(values):
@@ -196,8 +196,9 @@ def _overview_sheet(
     ws.autofilter(_TOP, 0, last, len(cols) - 1)
     ws.freeze_panes(_TOP + 1, 2)
     ws.set_landscape()
-    ws.fit_to_pages(1, 0)
+    ws.set_paper(8)  # A3: the table is wide; headings and series names repeat on each page
     ws.repeat_rows(_TOP)
+    ws.repeat_columns(0, 1)
 
 
 def _chart_sheet(wb: Any, fmts: dict[str, Any], table: pd.DataFrame, opts: JobOptions) -> None:
@@ -233,7 +234,9 @@ def _chart_sheet(wb: Any, fmts: dict[str, Any], table: pd.DataFrame, opts: JobOp
                 "gap": 60,
             }
         )
-    chart.set_title({"name": "One-day VaR of the fitted error law (positive loss)"})
+    chart.set_title(
+        {"name": "One-day VaR of the fitted error law (positive loss)", "name_font": {"size": 12}}
+    )
     chart.set_y_axis(
         {
             "name": "Loss (daily log return)",
@@ -247,13 +250,16 @@ def _chart_sheet(wb: Any, fmts: dict[str, Any], table: pd.DataFrame, opts: JobOp
     chart.set_legend({"position": "bottom"})
     chart.set_size({"width": max(720, 22 * k + 200), "height": 420})
     ws.insert_chart(3, 0, chart)
+    ws.set_landscape()
+    ws.fit_to_pages(1, 1)
 
 
 def _guide_sheet(
     wb: Any, fmts: dict[str, Any], opts: JobOptions, source: str, as_of: dt.date
 ) -> None:
     ws = wb.add_worksheet(GUIDE)
-    ws.set_column(0, 0, 110)
+    ws.set_column(0, 0, 100)
+    ws.fit_to_pages(1, 0)
     conf = ", ".join(f"{conf_tag(c)}%" for c in opts.confidences)
     rule = "square-root-of-time" if opts.horizon_rule == "sqrt" else "exact i.i.d. sum"
     models = get_models(list(opts.models))
@@ -325,5 +331,5 @@ def _guide_sheet(
         prefix = "•  " if kind == "bullet" else ""
         ws.write_string(r, 0, prefix + text, fmts[style[kind]])
         if kind != "h2":
-            ws.set_row(r, 15 * max(1, math.ceil(len(text) / 120)))
+            ws.set_row(r, 15 * max(1, math.ceil(len(text) / 105)))
         r += 1 if kind != "h2" else 1
