@@ -1,6 +1,6 @@
 """Reading a panel: wide and long tables, CSV / xlsx / Parquet, validated per series.
 
-The messages are refresh's own (errdist.workbook.prices_io): each failing series is checked
+The messages are refresh's own (errdist.data.prices_io): each failing series is checked
 against ``read_prices`` run on that series alone, written as a one-series file — so the panel
 cannot drift from the single-series rules.
 """
@@ -11,9 +11,9 @@ import numpy as np
 import pandas as pd
 import pytest
 
+from errdist.data.prices_io import read_prices
 from errdist.errors import InputTypeError
 from errdist.panel.inputs import read_panel
-from errdist.workbook.prices_io import read_prices
 from panel_data import simulated_wide, to_long, write
 
 

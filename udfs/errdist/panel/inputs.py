@@ -11,18 +11,18 @@ Layouts
     Three columns: date, series name, price — one row per series and date, in any order of
     series (each series' own dates oldest first, or newest first throughout).
 
-File types: CSV and .xlsx (read by :mod:`errdist.workbook.prices_io`, the reader of
+File types: CSV and .xlsx (read by :mod:`errdist.data.prices_io`, the reader of
 ``errdist refresh``) and Parquet (``pandas.read_parquet``; needs ``pyarrow``).
 
-Validation reuses the refresh reader's steps (:func:`~errdist.workbook.prices_io.check_dates`,
-:func:`~errdist.workbook.prices_io.check_prices`,
-:func:`~errdist.workbook.prices_io.order_and_cut`), so each series gets the same rules and
+Validation reuses the refresh reader's steps (:func:`~errdist.data.prices_io.check_dates`,
+:func:`~errdist.data.prices_io.check_prices`,
+:func:`~errdist.data.prices_io.order_and_cut`), so each series gets the same rules and
 the same messages as a single-series refresh. A problem of the whole file (unreadable, no
 date column) raises; a problem of one series is kept as that series' ``reason`` and the other
 series go on.
 
 All series are cut at one ``as_of`` date: the one given, or the table's last date. A series
-whose last price is more than :data:`~errdist.workbook.prices_io.MAX_AS_OF_GAP_DAYS` days
+whose last price is more than :data:`~errdist.data.prices_io.MAX_AS_OF_GAP_DAYS` days
 before it is refused as stale, with refresh's message.
 """
 
@@ -37,9 +37,9 @@ from typing import Any, Literal
 import numpy as np
 import pandas as pd
 
+from errdist.data import prices_io as pio
+from errdist.data.returns import returns_from_prices
 from errdist.errors import InputTypeError, InsufficientDataError
-from errdist.returns import returns_from_prices
-from errdist.workbook import prices_io as pio
 
 __all__ = ["LAYOUTS", "MAX_PANEL_CSV_BYTES", "PanelInput", "SeriesData", "read_panel"]
 

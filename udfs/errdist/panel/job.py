@@ -247,7 +247,7 @@ def _backtest_into(
         return
     row.update(
         {
-            f"{m}_forecasts": full.observations,
+            f"{m}_forecasts": full.n,
             f"{m}_exceptions": full.exceptions,
             f"{m}_expected": full.expected,
             f"{m}_pof_pvalue": full.pof.pvalue,
