@@ -166,6 +166,13 @@ def add_parser(sub: Any) -> None:
         default=None,
         help="series per task (default: about 8 tasks per worker, at most 50)",
     )
+    p.add_argument(
+        "--book-per-series",
+        dest="book_per_series",
+        default=None,
+        metavar="DIR",
+        help="also build one monthly workbook per series in DIR (as refresh; 10-25 s each)",
+    )
     p.add_argument("--force", action="store_true", help="overwrite existing output files")
     p.set_defaults(func=run_panel)
 
@@ -210,6 +217,11 @@ def run_panel(args: argparse.Namespace) -> int:
         f"read {len(panel.series):,} series from {src} ({panel.layout} layout, as of "
         f"{panel.as_of:%Y-%m-%d}): {len(panel.usable):,} usable, {len(panel.failed):,} refused"
     )
+    books_dir = getattr(args, "book_per_series", None)
+    if books_dir:
+        from errdist.panel.books import check_books
+
+        check_books(panel, books_dir, force=force)
     progress = Progress(len(panel.usable))
     table = compute_panel(
         panel,
@@ -220,6 +232,18 @@ def run_panel(args: argparse.Namespace) -> int:
         progress=progress,
         say=say,
     )
+    if books_dir:
+        from errdist.panel.books import write_books
+
+        books_progress = Progress(len(panel.usable), label="books")
+        try:
+            books = write_books(panel, books_dir, force=force, on_done=books_progress.update)
+        finally:
+            books_progress.close()
+        table["book"] = [
+            books.get(name, "") if st == "ok" else ""
+            for name, st in zip(table["series"], table["status"], strict=True)
+        ]
     from errdist.panel.overview import write_overview
 
     # Both files appear together: each is written to a temporary file first and both are

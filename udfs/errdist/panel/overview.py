@@ -67,6 +67,7 @@ _FIXED_LABELS = {
     "gof_seed": ("Fit check seed", "int", 20),
     "best_law": ("Best law by AIC", "label", 16),
     "aic_gap": ("AIC of error law minus best", "num2", 11),
+    "book": ("Monthly workbook", "label", 24),
 }
 
 _MODEL_LABELS = {
