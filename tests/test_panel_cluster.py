@@ -20,7 +20,7 @@ import pandas as pd
 import pytest
 
 import errdist
-from errdist.panel import compute_panel, default_options, read_panel
+from errdist.panel import compute_panel, default_options, execute, read_panel
 from panel_data import simulated_wide, write
 
 pytestmark = pytest.mark.cluster
@@ -119,7 +119,7 @@ def cluster(tmp_path_factory):
         assert all(p.poll() is not None for p in procs)
 
 
-def test_cluster_table_equals_serial_table_cell_for_cell(cluster, tmp_path):
+def test_cluster_table_equals_serial_table_cell_for_cell(cluster, tmp_path, monkeypatch):
     w = simulated_wide(n_series=7, n_prices=300, seed=11).astype(object)
     w.loc[40, "S03"] = None  # one series refused at input
     panel = read_panel(write(w, tmp_path / "w.csv"))
@@ -130,5 +130,9 @@ def test_cluster_table_equals_serial_table_cell_for_cell(cluster, tmp_path):
     # Other blocks, same numbers: nothing depends on how the panel was split.
     again = compute_panel(panel, opts, scheduler=cluster, block_size=5)
     pd.testing.assert_frame_equal(again, serial, check_exact=True)
+    # Scattered in chunks of 4 series: blocks of 3 cross the chunk boundaries.
+    monkeypatch.setattr(execute, "CHUNK_SERIES", 4)
+    chunked = compute_panel(panel, opts, scheduler=cluster, block_size=3)
+    pd.testing.assert_frame_equal(chunked, serial, check_exact=True)
     assert (serial["status"] == "ok").sum() == 6
     assert serial["gof_pvalue"].notna().sum() == 6

@@ -7,8 +7,10 @@ serial
 dask
     A ``dask.distributed`` client: a ``LocalCluster`` of ``workers`` single-threaded worker
     processes by default, or a running cluster given by its scheduler address
-    (``tcp://HOST:PORT``). The returns of every usable series are scattered **once**
-    (:class:`PanelData`, one object); each task is one block of series
+    (``tcp://HOST:PORT``). The returns of the usable series are scattered **once**, in
+    chunks of at most :data:`CHUNK_SERIES` series (:class:`PanelData` objects), so a worker
+    holds only the chunks its tasks need and its memory does not grow with the panel; each
+    task is one block of series
     (:func:`errdist.panel.job.run_block`), not one fit. Results come back as blocks finish
     and are put in input order, so the output does not depend on the number of workers or on
     which block ended first (each series' random draws are seeded by its name).
@@ -19,6 +21,7 @@ cluster) and is raised again: the caller writes nothing.
 
 from __future__ import annotations
 
+import itertools
 import logging
 import math
 import uuid
@@ -46,6 +49,9 @@ PARALLEL_HINT = (
 """What the serial fallback says."""
 
 Rows = dict[int, dict[str, Any]]
+
+CHUNK_SERIES = 1000
+"""Most series per scattered chunk (1,000 x 1,260 returns is about 10 MB)."""
 
 
 @dataclass
@@ -78,6 +84,12 @@ class PanelData:
 
     def returns(self, i: int) -> np.ndarray:
         return self.values[self.offsets[i] : self.offsets[i + 1]]
+
+    def slice(self, a: int, b: int) -> PanelData:
+        """Series ``a`` to ``b - 1`` as a PanelData of their own (a copy of their values)."""
+        b = min(b, len(self))
+        lo, hi = int(self.offsets[a]), int(self.offsets[b])
+        return PanelData(self.names[a:b], self.values[lo:hi].copy(), self.offsets[a : b + 1] - lo)
 
 
 def dask_available() -> bool:
@@ -165,12 +177,24 @@ def run_dask(
         client, cluster = _client(workers, scheduler)
     futures: list[Any] = []
     try:
-        data_future = client.scatter(data, hash=False)
         run = uuid.uuid4().hex[:12]  # keys unique on a shared scheduler
-        futures = [
-            client.submit(run_block, data_future, list(b), opts, key=f"panel-{run}-{k}")
-            for k, b in enumerate(blocks)
-        ]
+        chunks: dict[int, Any] = {}  # chunk number -> its scattered PanelData
+        for k, b in enumerate(blocks):
+            for c, part in itertools.groupby(b, key=lambda i: i // CHUNK_SERIES):
+                if c not in chunks:
+                    piece = data.slice(c * CHUNK_SERIES, (c + 1) * CHUNK_SERIES)
+                    chunks[c] = client.scatter(piece, hash=False)
+                local = [i - c * CHUNK_SERIES for i in part]
+                futures.append(
+                    client.submit(
+                        run_block,
+                        chunks[c],
+                        local,
+                        opts,
+                        c * CHUNK_SERIES,
+                        key=f"panel-{run}-{k}-{c}",
+                    )
+                )
         out: Rows = {}
         for fut in as_completed(futures):
             part = fut.result()

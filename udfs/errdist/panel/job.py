@@ -260,8 +260,9 @@ def _backtest_into(
 
 
 def run_block(
-    data: Any, indices: Sequence[int], opts: JobOptions
+    data: Any, indices: Sequence[int], opts: JobOptions, offset: int = 0
 ) -> list[tuple[int, dict[str, Any]]]:
     """The rows of the series ``indices`` of ``data`` (a :class:`~errdist.panel.execute.PanelData`):
-    one Dask task. Returns ``(index, row)`` pairs."""
-    return [(i, series_row(data.name(i), data.returns(i), opts)) for i in indices]
+    one Dask task. Returns ``(offset + index, row)`` pairs (``offset``: where ``data`` starts
+    in the whole panel)."""
+    return [(offset + i, series_row(data.name(i), data.returns(i), opts)) for i in indices]
