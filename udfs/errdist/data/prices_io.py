@@ -228,6 +228,10 @@ def _parse_number(v: Any, decimal_comma: bool) -> float | None:
     if isinstance(v, (int, float)):
         return float(v)
     if isinstance(v, str):
+        try:  # the common case first: a plain number (the forms below all hold a comma or
+            return float(v)  # an inner space, which float() refuses)
+        except ValueError:
+            pass
         s = v.strip().replace("\u00a0", "").replace(" ", "")
         if decimal_comma and re.fullmatch(r"[-+]?[\d.]*,\d+", s):
             s = s.replace(".", "").replace(",", ".")
