@@ -112,11 +112,22 @@ def _timed_dask(data, opts, workers: int, block_size: int | None = None):
 def main() -> None:
     ap = argparse.ArgumentParser()
     ap.add_argument("--quick", action="store_true", help="smaller sizes (a smoke run)")
+    ap.add_argument("--part", choices=("1", "2", "all"), default="all", help="targets to run")
+    ap.add_argument("--series2", type=int, default=None, help="series of the backtest part")
     args = ap.parse_args()
     n1, n_ret = (200, 1260) if args.quick else (2000, 1260)
-    n2 = 40 if args.quick else 200
-    print(f"machine: {os.cpu_count()} cores; errdist {errdist.__version__}")
+    n2 = args.series2 or (40 if args.quick else 200)
+    print(
+        f"machine: {os.cpu_count()} cores; errdist {errdist.__version__}; "
+        f"load average {os.getloadavg()[0]:.1f}"
+    )
+    if args.part in ("1", "all"):
+        _part1(n1, n_ret)
+    if args.part in ("2", "all"):
+        _part2(n2)
 
+
+def _part1(n1: int, n_ret: int) -> None:
     # 1. Fits + VaR/ES.
     names, series = _grid(n1, n_ret)
     with tempfile.TemporaryDirectory() as tmp:
@@ -172,6 +183,8 @@ def main() -> None:
         per = (time.perf_counter() - t0) / len(few) - t_serial / n1
         print(f"    + {label}: {per * 1e3:.0f} ms per series (1,260 returns, one core)")
 
+
+def _part2(n2: int) -> None:
     # 2. Rolling backtests: 1 worker vs 2 workers.
     names2, series2 = _grid(n2, 1250, seed=7)
     data2 = PanelData.from_series(names2, series2)
