@@ -41,22 +41,22 @@ DEFAULT_CONFIDENCES = (0.95, 0.975, 0.99)
 
 
 def default_options(**changes: Any) -> JobOptions:
-    """The panel's settings: the monthly workbook's horizon, backtest window and confidence,
-    goodness-of-fit statistic, samples and seed (:mod:`errdist.workbook.template`), with
-    ``changes`` applied."""
-    from errdist.workbook import template as t
+    """The panel's settings: the monthly workbook's horizon (Risk sheet), backtest window and
+    confidence (Backtest sheet), goodness-of-fit statistic, samples and seed (Fit check sheet),
+    from :mod:`errdist.workbook.sheets`, with ``changes`` applied."""
+    from errdist.workbook.sheets import backtest, fit_check, risk
 
     opts = {
         "confidences": DEFAULT_CONFIDENCES,
-        "horizon": t.HORIZON_DAYS,
+        "horizon": risk.HORIZON_DAYS,
         "horizon_rule": "sqrt",
-        "gof_samples": t.GOF_SAMPLES,
-        "gof_statistic": t.GOF_STATISTIC,
-        "seed": t.GOF_SEED,
+        "gof_samples": fit_check.GOF_SAMPLES,
+        "gof_statistic": fit_check.GOF_STATISTIC,
+        "seed": fit_check.GOF_SEED,
         "rivals": True,
         "models": tuple(m.name for m in get_models(None)),
-        "window": t.BACKTEST_WINDOW,
-        "backtest_confidence": t.BACKTEST_CONFIDENCE,
+        "window": backtest.BACKTEST_WINDOW,
+        "backtest_confidence": backtest.BACKTEST_CONFIDENCE,
         "zone_days": 250,
     }
     opts.update(changes)
