@@ -67,7 +67,7 @@ def _client(workers: int):
         n_workers=workers,
         threads_per_worker=1,
         processes=True,
-        dashboard_address=None,
+        dashboard_address=":0",  # any free port: 8787 may be taken by another cluster
         silence_logs=logging.ERROR,
     )
     return Client(cluster), cluster

@@ -137,7 +137,7 @@ def _client(workers: int, scheduler: str | None) -> tuple[Any, Any]:
         n_workers=max(1, int(workers)),
         threads_per_worker=1,
         processes=True,
-        dashboard_address=None,
+        dashboard_address=":0",  # any free port: 8787 may be taken by another cluster
         silence_logs=logging.ERROR,
     )
     return Client(cluster), cluster
