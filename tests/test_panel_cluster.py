@@ -136,3 +136,14 @@ def test_cluster_table_equals_serial_table_cell_for_cell(cluster, tmp_path, monk
     pd.testing.assert_frame_equal(chunked, serial, check_exact=True)
     assert (serial["status"] == "ok").sum() == 6
     assert serial["gof_pvalue"].notna().sum() == 6
+
+
+def test_command_on_a_local_cluster_writes_the_serial_table(tmp_path):
+    """``errdist panel --workers 2`` (a LocalCluster of 2 processes) = ``--workers 0``."""
+    from errdist.cli import main
+
+    prices = write(simulated_wide(n_series=3, n_prices=120, seed=5), tmp_path / "p.csv")
+    common = ["panel", "--prices", str(prices), "--gof-samples", "19", "--models", "none"]
+    assert main([*common, "--out", str(tmp_path / "a.xlsx"), "--workers", "0"]) == 0
+    assert main([*common, "--out", str(tmp_path / "b.xlsx"), "--workers", "2"]) == 0
+    assert (tmp_path / "a.csv").read_bytes() == (tmp_path / "b.csv").read_bytes()
