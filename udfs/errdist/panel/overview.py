@@ -183,8 +183,9 @@ def _overview_sheet(
     )
     cols = list(table.columns)
     for j, col in enumerate(cols):
-        label, _, width = column_label(col, opts)
-        ws.write_string(_TOP, j, label, fmts["head_r"] if j > 1 else fmts["head"])
+        label, fmt, width = column_label(col, opts)
+        text_column = fmt in ("label", "label_b")  # headings sit over their values' side
+        ws.write_string(_TOP, j, label, fmts["head"] if text_column else fmts["head_r"])
         ws.set_column(j, j, width)
     ws.set_row(_TOP, 62)
     fmt_of = [fmts[column_label(c, opts)[1]] for c in cols]
