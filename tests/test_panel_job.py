@@ -113,6 +113,14 @@ def test_row_equals_errdist_single_series_functions():
     seed = series_seed(OPTS.seed, "S00")
     assert row["gof_seed"] == seed
     assert row["gof_pvalue"] == errdist.goodness_of_fit(x, samples=19, seed=seed).pvalue
+    # The seed column reproduces the p-value in a worksheet: ERRDIST_GOF with the seed as a
+    # cell value (a double).
+    from errdist.sheet.catalog import evaluate
+
+    table = evaluate(
+        "ERRDIST_GOF", x.reshape(-1, 1).tolist(), None, None, None, "ad", 19, float(seed)
+    )
+    assert dict((r[0], r[1]) for r in table)["p-value"] == row["gof_pvalue"]
     assert row["best_law"] == errdist.compare(x)["law"].iloc[0]
     var = errdist.rolling_var(x, 250, 0.99)
     bt = errdist.backtest(x[250:], var[250:], 0.99)
@@ -125,7 +133,8 @@ def test_seed_depends_on_the_name_only():
     assert series_seed(1, "A") == series_seed(1, "A")
     assert series_seed(1, "A") != series_seed(1, "B")
     assert series_seed(1, "A") != series_seed(2, "A")
-    assert 0 <= series_seed(1, "A") < 2**63
+    # A worksheet cell holds 15 digits exactly (IEEE double, common practice, no source).
+    assert all(0 <= series_seed(k, n) < 10**15 for k in range(5) for n in "ABCDEFG")
 
 
 def test_failed_steps_become_notes_and_short_series_skip_the_backtest():

@@ -89,15 +89,20 @@ def conf_tag(c: float) -> str:
     return f"{100 * c:.10g}"
 
 
+SEED_BITS = 48
+"""Bits of a series' seed: below 2**48 (15 digits), so a spreadsheet cell holds it exactly."""
+
+
 def series_seed(seed: int, name: str) -> int:
     """The bootstrap seed of series ``name``: a function of the base seed and the name only.
 
-    ``SeedSequence([seed, crc32(name)])`` -> one 63-bit integer; passing it to
-    :func:`errdist.goodness_of_fit` (or ERRDIST_GOF) reproduces the series' p-value.
+    ``SeedSequence([seed, crc32(name)])`` -> one integer below ``2**48``; passing it to
+    :func:`errdist.goodness_of_fit` (or ERRDIST_GOF in a worksheet, whose cells hold 15
+    digits exactly) reproduces the series' p-value.
     """
     crc = zlib.crc32(name.encode("utf-8"))
     state = np.random.SeedSequence([int(seed), crc]).generate_state(2, dtype=np.uint32)
-    return int((int(state[0]) << 31) ^ int(state[1]))
+    return ((int(state[0]) << 16) ^ int(state[1])) & ((1 << SEED_BITS) - 1)
 
 
 def columns(opts: JobOptions) -> list[str]:
