@@ -160,3 +160,20 @@ def test_table_ranks_by_es_and_keeps_failed_series_last(tmp_path):
     last = table.iloc[-1]
     assert last.series == "S01" and last.status == "failed" and "row 22" in last.reason
     assert table["rank"].isna().iloc[-1]
+
+
+def test_conditional_models_are_listed_and_backtested_like_their_own_forecasts():
+    """ewma / gjr come from errdist.risk.forecasts; the panel backtests their VaR column."""
+    from errdist.risk.forecasts import rolling_forecasts
+
+    rng = np.random.default_rng(21)
+    x = errdist.rvs(1060, 0.0, 0.01, 1.3, seed=rng)
+    opts = default_options(gof_samples=0, rivals=False, models=("uncond", "ewma"))
+    assert default_options().models == ("uncond",)
+    row = series_row("E", x, opts)
+    var = rolling_forecasts(x, "ewma", 0.99).var
+    bt = errdist.backtest(x[250:], var[250:], 0.99)
+    assert row["ewma_forecasts"] == bt.n == 60
+    assert row["ewma_exceptions"] == bt.exceptions
+    assert row["ewma_cc_pvalue"] == bt.conditional_coverage.pvalue
+    assert row["uncond_forecasts"] == 1060 - 250

@@ -141,7 +141,8 @@ def add_parser(sub: Any) -> None:
     p.add_argument(
         "--models",
         default=None,
-        help="models to backtest, comma-separated, or none (default: all registered: uncond)",
+        help="models to backtest, comma-separated (uncond, ewma, gjr), or none (default: uncond; "
+        "the conditional ewma and gjr need 1,000 returns before their first forecast)",
     )
     p.add_argument("--as-of", dest="as_of", default=None, help="last date for every series")
     p.add_argument("--layout", choices=("auto", "wide", "long"), default="auto")

@@ -39,12 +39,15 @@ class Model:
         What the model is, for the overview workbook.
     forecast : callable
         ``forecast(returns, window, confidence)`` -> one-day VaR forecasts (positive losses),
-        same length as ``returns``, NaN in the first ``window`` positions.
+        same length as ``returns``, NaN where there is no forecast yet.
+    default : bool
+        Backtested when ``--models`` is not given.
     """
 
     name: str
     label: str
     forecast: Forecaster
+    default: bool = True
 
 
 MODELS: dict[str, Model] = {}
@@ -61,9 +64,9 @@ def register(model: Model) -> Model:
 
 def get_models(names: str | list[str] | tuple[str, ...] | None) -> tuple[Model, ...]:
     """The models named in ``names`` (a comma-separated text or a list); ``"none"`` or an
-    empty list gives none; ``None`` gives every registered model."""
+    empty list gives none; ``None`` gives the default models."""
     if names is None:
-        return tuple(MODELS.values())
+        return tuple(m for m in MODELS.values() if m.default)
     if isinstance(names, str):
         names = [n.strip() for n in names.split(",") if n.strip()]
     if [n.casefold() for n in names] in ([], ["none"]):
@@ -92,5 +95,49 @@ register(
         "uncond",
         "Unconditional error law, refitted by maximum likelihood on each rolling window",
         unconditional_forecasts,
+    )
+)
+
+
+def _conditional(model: str, returns: NDArray[np.float64], confidence: float, window: int):
+    from errdist.risk.forecasts import rolling_forecasts
+
+    path = rolling_forecasts(returns, model, confidence, window=window)
+    return np.asarray(path.var, dtype=np.float64)
+
+
+def ewma_forecasts(
+    returns: NDArray[np.float64], window: int, confidence: float
+) -> NDArray[np.float64]:
+    """RiskMetrics EWMA volatility with the skewed error law refitted on the scaled returns
+    (:func:`errdist.risk.forecasts.rolling_forecasts`, model ``"ewma"``; first forecast after
+    its 1,000-day fit window)."""
+    return _conditional("ewma", returns, confidence, window)
+
+
+def gjr_forecasts(
+    returns: NDArray[np.float64], window: int, confidence: float
+) -> NDArray[np.float64]:
+    """GJR-GARCH(1,1) with the skewed error law, estimated by ``arch``
+    (:func:`errdist.risk.forecasts.rolling_forecasts`, model ``"gjr"``)."""
+    return _conditional("gjr", returns, confidence, window)
+
+
+register(
+    Model(
+        "ewma",
+        "Conditional: EWMA volatility (lambda 0.94) with the skewed error law, refitted every "
+        "21 days on 1,000 days",
+        ewma_forecasts,
+        default=False,
+    )
+)
+register(
+    Model(
+        "gjr",
+        "Conditional: GJR-GARCH(1,1) with the skewed error law (arch), re-estimated every 21 "
+        "days on 1,000 days",
+        gjr_forecasts,
+        default=False,
     )
 )
