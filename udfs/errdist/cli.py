@@ -8,6 +8,7 @@ Sub-commands dispatch to the modules that own the work:
 - ``errdist freeze``   a values copy for recipients (``errdist.workbook.commands.run_freeze``)
 - ``errdist backtest`` backtest VaR/ES models over a price history
   (``errdist.backtest_command.run_backtest``)
+- ``errdist panel``    many series at once (``errdist.panel.command.run_panel``)
 - ``errdist vba``      write the VBA module for manual import (``errdist.sheet.vba.main``)
 - ``errdist libreoffice install|uninstall``  live functions in LibreOffice Calc
   (``errdist.libreoffice.commands.run``)
@@ -218,6 +219,10 @@ def build_parser() -> argparse.ArgumentParser:
     from errdist.backtest_command import add_parser as add_backtest
 
     add_backtest(sub)
+
+    from errdist.panel.command import add_parser as add_panel_parser
+
+    add_panel_parser(sub)
 
     vba = sub.add_parser("vba", help="write the VBA module (.bas) for manual import")
     vba.add_argument("--out", default=None, help="file to write, .bas (default: standard output)")

@@ -96,7 +96,9 @@ _ISO_WITH_TIME = re.compile(r"^\d{4}-\d{2}-\d{2}[ T]\d{2}:\d{2}(:\d{2}(\.\d+)?)?
 
 
 @dataclass
-class _Table:
+class RawTable:
+    """A file's header and data rows as read, before any validation."""
+
     header: list[str]
     rows: list[tuple[int, list[Any]]]  # (file row number, cells)
     decimal_comma: bool = False
@@ -178,12 +180,12 @@ class _bounded_rows:  # noqa: N801 - used like csv.reader
             ) from None
 
 
-def _read_csv(path: Path) -> _Table:
+def _read_csv(path: Path, max_bytes: int = MAX_CSV_BYTES) -> RawTable:
     size = path.stat().st_size
-    if size > MAX_CSV_BYTES:
+    if size > max_bytes:
         raise InputTypeError(
             f"{path}: file is {size / 1e6:.1f} MB, larger than the "
-            f"{MAX_CSV_BYTES / 1e6:.0f} MB limit for a prices file"
+            f"{max_bytes / 1e6:.0f} MB limit for a prices file"
         )
     raw = path.read_bytes()
     text = _decode_text(raw, path)
@@ -219,7 +221,7 @@ def _read_csv(path: Path) -> _Table:
         rows.append((line, [c.strip() for c in cells]))
     if header is None:
         raise InputTypeError(f"{path}: the file is empty")
-    skipped = _skip_title_rows(_Table(header, rows, delimiter == ";"), path)
+    skipped = _skip_title_rows(RawTable(header, rows, delimiter == ";"), path)
     header, rows = skipped.header, skipped.rows
     wide = [r for r, cells in rows if any(not _blank(c) for c in cells[len(header) :])]
     if wide:
@@ -228,7 +230,7 @@ def _read_csv(path: Path) -> _Table:
             f"{path}: {_rows_text(wide)}: more values than the {len(header)} column headers"
             + (hint if delimiter == "," else "")
         )
-    return _Table(header, rows, decimal_comma=delimiter == ";", header_row=skipped.header_row)
+    return RawTable(header, rows, decimal_comma=delimiter == ";", header_row=skipped.header_row)
 
 
 def _first_sheet_rows_calamine(path: Path) -> list[list[Any]] | None:
@@ -263,7 +265,7 @@ def _first_sheet_rows_openpyxl(path: Path) -> list[list[Any]]:
 USE_CALAMINE = True
 
 
-def _read_xlsx(path: Path, sheet_name: str | None = None) -> _Table:
+def _read_xlsx(path: Path, sheet_name: str | None = None) -> RawTable:
     safety.inspect_xlsx(path)
     safety.defuse_xml()
     if sheet_name is not None:
@@ -286,7 +288,7 @@ def _read_xlsx(path: Path, sheet_name: str | None = None) -> _Table:
     if header is None:
         which = f"the sheet {sheet_name!r}" if sheet_name is not None else "the first sheet"
         raise InputTypeError(f"{path}: {which} is empty" + _sheet_hint(path, sheet_name))
-    return _Table(header, rows)
+    return RawTable(header, rows)
 
 
 def _sheet_hint(path: Path, sheet_name: str | None) -> str:
@@ -295,7 +297,7 @@ def _sheet_hint(path: Path, sheet_name: str | None) -> str:
     return sheet_hint(path, sheet_name)
 
 
-def _skip_title_rows(table: _Table, path: Path) -> _Table:
+def _skip_title_rows(table: RawTable, path: Path) -> RawTable:
     """The table with its header moved down past any title rows above the column names
     (:func:`errdist.data.prices_sheets.locate_header`)."""
     from errdist.data.prices_sheets import locate_header
@@ -312,7 +314,7 @@ def _skip_title_rows(table: _Table, path: Path) -> _Table:
         return table
     header = ["" if c is None else str(c).strip() for c in lines[h][1]]
     rows = [(r, cells) for r, cells in lines[h + 1 :] if r is not None]
-    return _Table(header, rows, table.decimal_comma, header_row=lines[h][0])
+    return RawTable(header, rows, table.decimal_comma, header_row=lines[h][0])
 
 
 # ----------------------------------------------------------------------------------------------
@@ -326,6 +328,10 @@ def _parse_number(v: Any, decimal_comma: bool) -> float | None:
     if isinstance(v, (int, float)):
         return float(v)
     if isinstance(v, str):
+        try:  # the common case first: a plain number (the forms below all hold a comma or
+            return float(v)  # an inner space, which float() refuses)
+        except ValueError:
+            pass
         s = v.strip().replace("\u00a0", "").replace(" ", "")
         if decimal_comma and re.fullmatch(r"[-+]?[\d.]*,\d+", s):
             s = s.replace(".", "").replace(",", ".")
@@ -393,7 +399,7 @@ def _find_column(header: list[str], name: str, what: str, option: str) -> int:
     raise InputTypeError(f"no {what} column named {name!r} (option {option}); columns: {available}")
 
 
-def _column(table: _Table, i: int) -> list[Any]:
+def _column(table: RawTable, i: int) -> list[Any]:
     return [cells[i] if i < len(cells) else None for _, cells in table.rows]
 
 
@@ -411,7 +417,7 @@ def _is_date_value(v: Any) -> bool:
     return False
 
 
-def _detect_date_column(table: _Table) -> int:
+def _detect_date_column(table: RawTable) -> int:
     """The first column where most non-blank values read as dates (bad rows named later)."""
     for i in range(len(table.header)):
         vals = [v for v in _column(table, i) if not _blank(v)]
@@ -423,7 +429,7 @@ def _detect_date_column(table: _Table) -> int:
     )
 
 
-def _detect_price_column(table: _Table, date_col: int) -> int:
+def _detect_price_column(table: RawTable, date_col: int) -> int:
     candidates = []
     for i in range(len(table.header)):
         if i == date_col:
@@ -564,6 +570,48 @@ def read_prices(
         No such file.
     """
     p = Path(path)
+    table = read_table(p, sheet=sheet)
+    try:
+        dcol, pcol = find_columns(p, table, date_column=date_column, price_column=price_column)
+    except InputTypeError as exc:
+        raise InputTypeError(f"{exc}" + _sheet_hint(p, sheet)) from None
+    row_numbers = [r for r, _ in table.rows]
+    dates = check_dates(p, row_numbers, column(table, dcol), table.header[dcol])
+    prices = check_prices(
+        p, row_numbers, column(table, pcol), table.header[pcol], table.decimal_comma
+    )
+    df = order_and_cut(p, row_numbers, dates, prices, as_of)
+    df.attrs.update(
+        date_column=table.header[dcol],
+        price_column=table.header[pcol],
+        header_row=table.header_row,
+        sheet=sheet,
+    )
+    first, last = df.attrs["rows"]
+    kept = row_numbers if not df.attrs["newest_first"] else row_numbers[::-1]
+    i0 = kept.index(first)
+    _warn_stale(df, kept[i0 : i0 + len(df)], p)
+    return df
+
+
+def read_table(
+    path: str | os.PathLike[str],
+    *,
+    max_csv_bytes: int = MAX_CSV_BYTES,
+    sheet: str | None = None,
+) -> RawTable:
+    """Read a CSV or .xlsx file's header and data rows, unvalidated (see :func:`read_prices`).
+
+    ``max_csv_bytes`` is the largest CSV file accepted (default :data:`MAX_CSV_BYTES`);
+    ``sheet`` names the workbook sheet to read (default the first). Title rows above the
+    header are skipped; more than ``ERRDIST_MAX_PRICE_ROWS`` data rows are refused.
+
+    Raises
+    ------
+    FileNotFoundError, InputTypeError, InsufficientDataError
+        No such file; not a file, an unknown type or an unreadable file; no data rows.
+    """
+    p = Path(path)
     if not p.exists():
         raise FileNotFoundError(f"{p}: no such file")
     if not p.is_file():
@@ -574,7 +622,7 @@ def read_prices(
     if suffix in (".xlsx", ".xlsm"):
         table = _read_xlsx(p, sheet)
     elif suffix in (".csv", ".txt", ".tsv", ""):
-        table = _read_csv(p)
+        table = _read_csv(p, max_csv_bytes)
     elif suffix == ".xls":
         raise InputTypeError(f"{p}: old .xls workbooks are not read; save as .xlsx or CSV")
     else:
@@ -590,12 +638,20 @@ def read_prices(
         )
     if not table.rows:
         raise InsufficientDataError(f"{p}: no data rows under the header" + _sheet_hint(p, sheet))
+    return table
 
+
+def find_columns(
+    source: Any,
+    table: RawTable,
+    *,
+    date_column: str | None = None,
+    price_column: str | None = None,
+) -> tuple[int, int]:
+    """Indices of the date and price columns: named (case-insensitive) or detected."""
+    p = source
+    dcol = find_date_column(p, table, date_column)
     try:
-        if date_column is not None:
-            dcol = _find_column(table.header, date_column, "date", "--date-column")
-        else:
-            dcol = _detect_date_column(table)
         if price_column is not None:
             pcol = _find_column(table.header, price_column, "price", "--price-column")
         else:
@@ -603,12 +659,33 @@ def read_prices(
         if pcol == dcol:
             raise InputTypeError("the date and price columns must differ")
     except InputTypeError as exc:
-        raise InputTypeError(f"{p}: {exc}" + _sheet_hint(p, sheet)) from None
+        raise InputTypeError(f"{p}: {exc}") from None
+    return dcol, pcol
 
-    row_numbers = [r for r, _ in table.rows]
-    raw_dates = _column(table, dcol)
-    raw_prices = _column(table, pcol)
 
+def find_date_column(source: Any, table: RawTable, date_column: str | None = None) -> int:
+    """Index of the date column: named (case-insensitive) or the first that holds dates."""
+    try:
+        if date_column is not None:
+            return _find_column(table.header, date_column, "date", "--date-column")
+        return _detect_date_column(table)
+    except InputTypeError as exc:
+        raise InputTypeError(f"{source}: {exc}") from None
+
+
+def column(table: RawTable, i: int) -> list[Any]:
+    """The raw values of column ``i`` of every data row (None past a short row)."""
+    return _column(table, i)
+
+
+def check_dates(
+    source: Any, row_numbers: list[int], raw_dates: list[Any], column_name: str
+) -> list[dt.date]:
+    """Parse a date column; a blank or unreadable date raises, naming the rows.
+
+    ``source`` starts every message (the file, or the file and a series name).
+    """
+    p = source
     blank_dates = [r for r, v in zip(row_numbers, raw_dates, strict=True) if _blank(v)]
     if blank_dates:
         raise InputTypeError(f"{p}: {_rows_text(blank_dates)}: the date is blank")
@@ -622,10 +699,28 @@ def read_prices(
             bad = row_numbers
         shown = raw_dates[row_numbers.index(bad[0])]
         raise InputTypeError(
-            f"{p}: {_rows_text(bad)}: not a date in column {table.header[dcol]!r} "
+            f"{p}: {_rows_text(bad)}: not a date in column {column_name!r} "
             f"(e.g. {shown!r}); use YYYY-MM-DD, one format for the whole column"
         )
+    far = [r for r, d in zip(row_numbers, dates, strict=True) if not FIRST_DATE <= d <= LAST_DATE]
+    if far:
+        example = dates[row_numbers.index(far[0])]
+        raise DomainError(
+            f"{p}: {_rows_text(far)}: date {example.isoformat()} is outside the dates errdist "
+            f"handles ({FIRST_DATE.isoformat()} to {LAST_DATE.isoformat()}); check the date"
+        )
+    return dates  # type: ignore[return-value]
 
+
+def check_prices(
+    source: Any,
+    row_numbers: list[int],
+    raw_prices: list[Any],
+    column_name: str,
+    decimal_comma: bool = False,
+) -> list[float]:
+    """Parse a price column; a blank, text, zero, negative or infinite price raises."""
+    p = source
     blank_prices = [r for r, v in zip(row_numbers, raw_prices, strict=True) if _blank(v)]
     if blank_prices:
         raise InputTypeError(
@@ -634,7 +729,7 @@ def read_prices(
     prices: list[float] = []
     text_rows = []
     for r, v in zip(row_numbers, raw_prices, strict=True):
-        x = _parse_number(v, table.decimal_comma)
+        x = _parse_number(v, decimal_comma)
         if x is None:
             text_rows.append(r)
             x = math.nan
@@ -643,7 +738,7 @@ def read_prices(
         example = raw_prices[row_numbers.index(text_rows[0])]
         raise InputTypeError(
             f"{p}: {_rows_text(text_rows)}: the price is not a number "
-            f"(e.g. {example!r} in column {table.header[pcol]!r})"
+            f"(e.g. {example!r} in column {column_name!r})"
         )
     bad_price = [
         r for r, x in zip(row_numbers, prices, strict=True) if not (math.isfinite(x) and x > 0)
@@ -653,14 +748,29 @@ def read_prices(
         raise DomainError(
             f"{p}: {_rows_text(bad_price)}: prices must be > 0 and finite, got {example:g}"
         )
+    return prices
 
-    far = [r for r, d in zip(row_numbers, dates, strict=True) if not FIRST_DATE <= d <= LAST_DATE]
-    if far:
-        example = dates[row_numbers.index(far[0])]
-        raise DomainError(
-            f"{p}: {_rows_text(far)}: date {example.isoformat()} is outside the dates errdist "
-            f"handles ({FIRST_DATE.isoformat()} to {LAST_DATE.isoformat()}); check the date"
-        )
+
+def order_and_cut(
+    source: Any,
+    row_numbers: list[int],
+    dates: list[dt.date],
+    prices: list[float],
+    as_of: str | dt.date | None = None,
+) -> pd.DataFrame:
+    """Check the dates' order, apply ``as_of`` and the minimum length; the prices as a frame.
+
+    Repeated dates and any disorder other than newest-first throughout raise (a newest-first
+    series is reversed); so do an ``as_of`` before the first date or more than
+    ``MAX_AS_OF_GAP_DAYS`` after the last, and fewer than ``MIN_RETURNS + 1`` prices.
+
+    Returns
+    -------
+    pandas.DataFrame
+        Columns ``date`` and ``price``, oldest first; ``attrs``: ``source``, ``rows``,
+        ``newest_first``.
+    """
+    p = source
     seen: dict[dt.date, int] = {}
     dupes = []
     for r, d in zip(row_numbers, dates, strict=True):
@@ -693,7 +803,6 @@ def read_prices(
             f"order, e.g. row {b} ({dates[row_numbers.index(b)]}) comes after row {a} "
             f"({dates[row_numbers.index(a)]}); sort the file by date, oldest first"
         )
-
     keep = len(dates)
     cutoff = _parse_as_of(as_of)
     if cutoff is not None:
@@ -727,14 +836,9 @@ def read_prices(
     )
     df.attrs.update(
         source=str(p),
-        date_column=table.header[dcol],
-        price_column=table.header[pcol],
         rows=(row_numbers[0], row_numbers[keep - 1]),
         newest_first=newest_first,
-        header_row=table.header_row,
-        sheet=sheet,
     )
-    _warn_stale(df, row_numbers[:keep], p)
     return df
 
 

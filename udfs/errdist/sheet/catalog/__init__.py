@@ -17,8 +17,9 @@ The entries live in one module per subject, assembled here in this order into th
 ordered :data:`CATALOG`: :mod:`~errdist.sheet.catalog.law` (density, probabilities, quantiles,
 draws, moments, solvers), :mod:`~errdist.sheet.catalog.estimate` (fits),
 :mod:`~errdist.sheet.catalog.data` (returns), :mod:`~errdist.sheet.catalog.about` (versions),
-:mod:`~errdist.sheet.catalog.risk` (VaR, ES) and :mod:`~errdist.sheet.catalog.checks`
-(backtests, goodness of fit, rival laws, chart points). Shared parameter descriptions and
+:mod:`~errdist.sheet.catalog.risk` (VaR, ES), :mod:`~errdist.sheet.catalog.checks`
+(backtests, goodness of fit, rival laws, chart points) and :mod:`~errdist.sheet.catalog.panel`
+(many series: one row per column). Shared parameter descriptions and
 examples are in :mod:`~errdist.sheet.catalog.shared`.
 
 Adding a worksheet function
@@ -59,7 +60,7 @@ from __future__ import annotations
 from types import ModuleType
 from typing import Any
 
-from errdist.sheet.catalog import about, checks, data, estimate, law, risk
+from errdist.sheet.catalog import about, checks, data, estimate, law, panel, risk
 from errdist.sheet.cells import SheetError
 from errdist.sheet.entry import (
     CATEGORY,
@@ -92,7 +93,7 @@ __all__ = [
     "text",
 ]
 
-SUBJECTS: tuple[ModuleType, ...] = (law, estimate, data, about, risk, checks)
+SUBJECTS: tuple[ModuleType, ...] = (law, estimate, data, about, risk, checks, panel)
 """The catalog modules, in the order of the function reference."""
 
 #: Name -> entry, in the order of the function reference.
