@@ -161,9 +161,7 @@ if _ArchDistribution is not None:
             tail = gammaincc(1.0 / nu, (np.abs(d) / s) ** nu)
             return np.where(left, 0.5 * (1.0 - lam) * tail, 1.0 - 0.5 * (1.0 + lam) * tail)
 
-        def moment(
-            self, n: int, parameters: Sequence[float] | ArrayLike | None = None
-        ) -> float:
+        def moment(self, n: int, parameters: Sequence[float] | ArrayLike | None = None) -> float:
             """Moments of order 0, 1, 2 (1, 0, 1); higher orders are not needed here."""
             self._check_constraints(parameters)
             if n in (0, 2):

@@ -5,6 +5,8 @@ Sub-commands dispatch to the modules that own the work:
 - ``errdist demo``     the demo month (``errdist.workbook.commands.run_demo``)
 - ``errdist refresh``  the unattended monthly job (``errdist.workbook.commands.run_refresh``)
 - ``errdist check``    audit a workbook (``errdist.workbook.commands.run_check``)
+- ``errdist backtest`` backtest VaR/ES models over a price history
+  (``errdist.backtest_command.run_backtest``)
 - ``errdist vba``      write the VBA module for manual import (``errdist.sheet.vba.main``)
 - ``errdist version``  versions, for audit trails
 
@@ -103,6 +105,10 @@ def build_parser() -> argparse.ArgumentParser:
         "--tolerance", type=float, default=1e-9, help="relative tolerance (default 1e-9)"
     )
     check.set_defaults(func=_dispatch("errdist.workbook.commands", "run_check"))
+
+    from errdist.backtest_command import add_parser as add_backtest
+
+    add_backtest(sub)
 
     vba = sub.add_parser("vba", help="write the VBA module (.bas) for manual import")
     vba.add_argument("--out", default=None, help="file to write (default: standard output)")

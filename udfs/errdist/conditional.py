@@ -158,7 +158,9 @@ def _confidence(confidence: Any) -> float:
     return c
 
 
-def clean_returns(returns: ArrayLike, minimum: int = MIN_RETURNS) -> tuple[NDArray[np.float64], int]:
+def clean_returns(
+    returns: ArrayLike, minimum: int = MIN_RETURNS
+) -> tuple[NDArray[np.float64], int]:
     """Returns as a float array with blanks (None/NaN) dropped; ``(values, n_dropped)``.
 
     Raises
@@ -428,8 +430,11 @@ def fit_gjr(
     out_names, out_p, out_se = [], [], []
     for name, v, e in zip(names, p, se, strict=True):
         f = unit.get(name, 1.0)
-        out_names.append({"alpha[1]": "alpha", "gamma[1]": "gamma", "beta[1]": "beta",
-                          "lambda": "skew"}.get(name, name))
+        out_names.append(
+            {"alpha[1]": "alpha", "gamma[1]": "gamma", "beta[1]": "beta", "lambda": "skew"}.get(
+                name, name
+            )
+        )
         out_p.append(float(v * f))
         out_se.append(float(e * f))
     at_bound = bool(nu <= 0.3 + 1e-6 or nu >= 50 - 1e-6 or abs(lam) >= 0.99 - 1e-6)

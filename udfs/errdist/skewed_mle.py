@@ -120,7 +120,10 @@ def fit_skewed_law(x: NDArray[np.float64], start: SkewedLawFit | None = None) ->
     std_y = a / as_
     mean_y = m - std_y * ms
     at_bound = bool(
-        abs(logb - lo_b) < 1e-6 or abs(logb - hi_b) < 1e-6 or abs(t - lo_t) < 1e-6 or abs(t - hi_t) < 1e-6
+        abs(logb - lo_b) < 1e-6
+        or abs(logb - hi_b) < 1e-6
+        or abs(t - lo_t) < 1e-6
+        or abs(t - hi_t) < 1e-6
     )
     return SkewedLawFit(
         mean=centre + spread * mean_y,
