@@ -12,6 +12,9 @@ The Python API (snake_case, scipy-style names, argument order ``(x, loc, scale, 
 - backtesting: :func:`kupiec`, :func:`christoffersen`, :func:`traffic_light`,
   :func:`backtest`, :func:`rolling_var`
 - data: :func:`returns_from_prices`
+- conditional volatility (EWMA, GJR-GARCH through ``arch``): :func:`fit_ewma`,
+  :func:`fit_gjr`; rolling VaR/ES forecasts :func:`rolling_forecasts`; the Acerbi-Szekely ES
+  backtest :func:`es_backtest`; side-by-side model backtests :func:`backtest_models`
 
 Errors are :class:`ValueError` subclasses from :mod:`errdist.errors`.
 """
@@ -67,10 +70,17 @@ from errdist.checks.rolling import rolling_var
 from errdist.data.returns import returns_from_prices
 from errdist.risk import expected_shortfall, value_at_risk
 
+# isort: split
+from errdist.checks.es_backtest import es_backtest
+from errdist.checks.model_backtest import backtest_models
+from errdist.risk.conditional import ConditionalFit, fit_ewma, fit_gjr
+from errdist.risk.forecasts import rolling_forecasts
+
 __all__ = [
     "SHAPE_MAX",
     "SHAPE_MIN",
     "BacktestResult",
+    "ConditionalFit",
     "DomainError",
     "Fit",
     "GofResult",
@@ -78,6 +88,7 @@ __all__ = [
     "InsufficientDataError",
     "__version__",
     "backtest",
+    "backtest_models",
     "cdf",
     "check_params",
     "christoffersen",
@@ -85,9 +96,12 @@ __all__ = [
     "compare",
     "edf_statistic",
     "empirical_points",
+    "es_backtest",
     "excess_kurtosis",
     "expected_shortfall",
     "fit",
+    "fit_ewma",
+    "fit_gjr",
     "goodness_of_fit",
     "isf",
     "kupiec",
@@ -99,6 +113,7 @@ __all__ = [
     "plotting_positions",
     "ppf",
     "returns_from_prices",
+    "rolling_forecasts",
     "rolling_var",
     "rvs",
     "sample_excess_kurtosis",
