@@ -1,7 +1,7 @@
 """``errdist backtest``: output formats, field names, progress, and messages for bad input.
 
 The statistics themselves are tested in test_forecasts.py / test_es_backtest.py; here the
-command is checked against errdist.model_backtest.backtest_models run directly, and the JSON
+command is checked against errdist.checks.model_backtest.backtest_models run directly, and the JSON
 field names against docs/backtesting.md.
 """
 
@@ -39,7 +39,7 @@ def _prices_file(tmp_path: Path, n: int = 420, seed: int = 9) -> Path:
 
 
 def test_json_output_keys_and_values(tmp_path: Path, capsys: pytest.CaptureFixture[str]) -> None:
-    from errdist.model_backtest import backtest_models
+    from errdist.checks.model_backtest import backtest_models
 
     path = _prices_file(tmp_path)
     code = cli.main(

@@ -12,7 +12,8 @@ import math
 import numpy as np
 import pytest
 
-from errdist.conditional import (
+from errdist.errors import DomainError, InputTypeError, InsufficientDataError
+from errdist.risk.conditional import (
     EWMA_SEED_DAYS,
     clean_returns,
     ewma_variance,
@@ -20,7 +21,6 @@ from errdist.conditional import (
     fit_gjr,
     law_risk,
 )
-from errdist.errors import DomainError, InputTypeError, InsufficientDataError
 
 arch = pytest.importorskip("arch", reason="the arch package is not installed")
 
@@ -63,7 +63,7 @@ def test_fit_gjr_on_sp500_matches_arch_and_closed_form() -> None:
     # errdist.law.skewed's closed forms at the standardized law's loc/scale.
     from arch.univariate import GARCH, ConstantMean
 
-    from errdist.arch_law import SkewedErrorInnovations
+    from errdist.risk.arch_law import SkewedErrorInnovations
 
     r = _sp500()
     f = fit_gjr(r, 0.99)

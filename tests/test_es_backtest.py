@@ -10,9 +10,9 @@ from __future__ import annotations
 import numpy as np
 import pytest
 
+from errdist.checks.es_backtest import Z2_CRITICAL_5, es_backtest, z2_statistic
 from errdist.errors import DomainError, InputTypeError, InsufficientDataError
-from errdist.es_backtest import Z2_CRITICAL_5, es_backtest, z2_statistic
-from errdist.innovation_law import lower_tail, rvs
+from errdist.risk.innovation_law import lower_tail, rvs
 
 
 def test_z2_hand_example() -> None:

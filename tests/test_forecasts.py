@@ -1,7 +1,7 @@
 """Rolling one-day VaR/ES forecasts: no look-ahead, reuse of rolling_var, fit quality, and a
 real-series coverage check.
 
-References: errdist.backtest.rolling_var (the existing symmetric rolling forecasts, themselves
+References: errdist.checks.rolling.rolling_var (the existing symmetric rolling forecasts, themselves
 checked against scipy.stats.gennorm); errdist.law.skewed.fit_skewed (the exact skewed MLE);
 arch.data sp500 (S&P 500 daily closes 1999-2018, shipped with arch).
 """
@@ -12,9 +12,10 @@ import numpy as np
 import pytest
 from scipy import stats
 
-from errdist.backtest import backtest, rolling_var
+from errdist.checks.backtest import backtest
+from errdist.checks.rolling import rolling_var
 from errdist.errors import DomainError, InputTypeError, InsufficientDataError
-from errdist.forecasts import rolling_forecasts
+from errdist.risk.forecasts import rolling_forecasts
 
 arch = pytest.importorskip("arch", reason="the arch package is not installed")
 
@@ -54,7 +55,7 @@ def test_no_look_ahead(model: str) -> None:
 
 
 def test_symmetric_model_is_rolling_var() -> None:
-    # Reference: errdist.backtest.rolling_var, today's symmetric rolling forecasts.
+    # Reference: errdist.checks.rolling.rolling_var, today's symmetric rolling forecasts.
     r = _sp500()[:900]
     path = rolling_forecasts(r, "symmetric", 0.99, window=250, fit_window=250)
     ref = rolling_var(r, 250, 0.99)
@@ -65,7 +66,7 @@ def test_symmetric_model_is_rolling_var() -> None:
 def test_warm_started_fit_reaches_exact_skewed_mle() -> None:
     # Reference: errdist.law.skewed.fit_skewed (exact maximum likelihood, no start point).
     sk = pytest.importorskip("errdist.law.skewed")
-    from errdist.skewed_mle import fit_skewed_law
+    from errdist.risk.skewed_mle import fit_skewed_law
 
     r = _sp500()
     prev = None
@@ -82,7 +83,7 @@ def test_warm_started_fit_reaches_exact_skewed_mle() -> None:
 def test_forecast_law_draws_match_var() -> None:
     # The VaR column is the (1 - c) quantile of the stored forecast law (checked by simulation
     # of that law with scipy's binomial test on the share of draws below -VaR).
-    from errdist.innovation_law import rvs
+    from errdist.risk.innovation_law import rvs
 
     r = _garchy(500)
     p = rolling_forecasts(r, "gjr", 0.99, window=100, fit_window=300, refit=50)
@@ -115,6 +116,6 @@ def test_sp500_gjr_skewed_passes_coverage_on_recent_slice() -> None:
     r = _sp500()[-2500:]
     p = rolling_forecasts(r, "gjr", 0.99, fit_window=1000, refit=21)
     bt = backtest(r[p.first :], p.var[p.first :], 0.99)
-    assert bt.observations == 1500
+    assert bt.n == 1500
     assert bt.pof.pvalue > 0.05
     assert bt.independence.pvalue > 0.05

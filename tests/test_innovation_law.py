@@ -13,12 +13,12 @@ import numpy as np
 import pytest
 from scipy import integrate, stats
 
-from errdist import innovation_law as L
+from errdist.risk import innovation_law as L
 
 arch = pytest.importorskip("arch", reason="the arch package is not installed")
 from arch.univariate import GARCH, ConstantMean, GeneralizedError  # noqa: E402
 
-from errdist.arch_law import SkewedErrorInnovations  # noqa: E402
+from errdist.risk.arch_law import SkewedErrorInnovations  # noqa: E402
 
 CASES = [(0.5, -0.6), (0.8, -0.3), (1.0, 0.0), (1.5, 0.2), (2.0, 0.0), (3.5, -0.1)]
 

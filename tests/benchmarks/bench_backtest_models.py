@@ -6,7 +6,7 @@ returns before the day; volatility filtered daily by arch's fixed-parameter one-
 forecasts from day 1,001 to the end (4,030 days per series).
 
 Models:
-- errdist GJR-GARCH(1,1) + skewed error law (errdist.forecasts, model "gjr");
+- errdist GJR-GARCH(1,1) + skewed error law (errdist.risk.forecasts, model "gjr");
 - errdist GJR-GARCH(1,1) + symmetric error law with errdist's shape bounds (skew fixed at 0);
 - arch GJR-GARCH(1,1) + skew-t (arch.univariate.SkewStudent, Hansen 1994) — the reference;
 - arch GJR-GARCH(1,1) + arch's GeneralizedError (shape bounded at 1.01).
@@ -33,10 +33,10 @@ import numpy as np
 from arch.data import nasdaq, sp500
 from arch.univariate import GARCH, ConstantMean, GeneralizedError, SkewStudent
 
-from errdist.arch_law import SkewedErrorInnovations
-from errdist.backtest import backtest
-from errdist.conditional import law_risk
-from errdist.forecasts import gjr_path
+from errdist.checks.backtest import backtest
+from errdist.risk.arch_law import SkewedErrorInnovations
+from errdist.risk.conditional import law_risk
+from errdist.risk.forecasts import gjr_path
 
 CONFIDENCE = 0.99
 FIT_WINDOW = 1000
@@ -59,9 +59,9 @@ def _run(r: np.ndarray, label: str, factory, var_of) -> dict:
     bt = backtest(r[sl], var, CONFIDENCE)
     return {
         "model": label,
-        "n": bt.observations,
+        "n": bt.n,
         "exc": bt.exceptions,
-        "rate": bt.exceptions / bt.observations,
+        "rate": bt.exceptions / bt.n,
         "kupiec": bt.pof.pvalue,
         "ind": bt.independence.pvalue,
         "cc": bt.conditional_coverage.pvalue,

@@ -1,8 +1,8 @@
 """``errdist backtest``: the long backtest of several VaR/ES models on a prices file.
 
 Reads the prices file as ``errdist refresh`` does
-(:func:`errdist.workbook.prices_io.read_prices`), takes daily log returns, runs
-:func:`errdist.model_backtest.backtest_models` and prints one row per model (``--format
+(:func:`errdist.data.prices_io.read_prices`), takes daily log returns, runs
+:func:`errdist.checks.model_backtest.backtest_models` and prints one row per model (``--format
 table``) or one JSON object keyed by model name (``--format json``; fields in
 ``docs/backtesting.md``). Progress goes to standard error, at most every
 :data:`PROGRESS_EVERY` seconds; results go to standard output. Bad input raises
@@ -130,9 +130,9 @@ def _json_value(v: Any) -> Any:
 
 def run_backtest(args: argparse.Namespace) -> int:
     """``errdist backtest``: read prices, backtest the models, print the results."""
-    from errdist.model_backtest import backtest_models
-    from errdist.returns import returns_from_prices
-    from errdist.workbook.prices_io import read_prices
+    from errdist.checks.model_backtest import backtest_models
+    from errdist.data.prices_io import read_prices
+    from errdist.data.returns import returns_from_prices
 
     confidence = _number("--confidence", args.confidence)
     if not 0.5 <= confidence < 1.0:
@@ -157,7 +157,7 @@ def run_backtest(args: argparse.Namespace) -> int:
         raise DomainError(f"--lambda must be in (0, 1) such as 0.94, got {lam:g}")
     models = [m.strip().lower() for m in str(args.models).split(",") if m.strip()]
     if "gjr" in models or "garch" in models:
-        from errdist.arch_law import require_arch
+        from errdist.risk.arch_law import require_arch
 
         require_arch()
 

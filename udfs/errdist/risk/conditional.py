@@ -1,7 +1,7 @@
 r"""Conditional volatility models with the (skewed) error law as innovation law.
 
 Two models of daily returns :math:`r_t = \mu_t + \sigma_t z_t`, :math:`z_t` i.i.d. from the
-standardized two-piece error law (:mod:`errdist.innovation_law`; mean 0, variance 1, shape
+standardized two-piece error law (:mod:`errdist.risk.innovation_law`; mean 0, variance 1, shape
 :math:`\nu`, skew :math:`\lambda`):
 
 **EWMA** (RiskMetrics Technical Document, J.P. Morgan/Reuters 1996, 4th ed., section 5.2):
@@ -17,7 +17,7 @@ their squared returns (about the RiskMetrics "effective number of days" for
 :math:`\lambda = 0.94` at a 1 % tolerance, :math:`\ln 0.01/\ln 0.94 \approx 74`), so no
 variance uses a return on or after its own day. The scaled returns :math:`r_t/\sigma_t` of the
 last ``fit_window`` days are then fitted by the two-piece law with free mean and spread
-(:func:`errdist.skewed_mle.fit_skewed_law`): the forecast law of tomorrow is
+(:func:`errdist.risk.skewed_mle.fit_skewed_law`): the forecast law of tomorrow is
 :math:`\sigma_{T+1}(\mu_z + s_z Z)`. RiskMetrics itself uses the normal law; the fitted law
 corrects both the tail and any scale bias of the fixed :math:`\lambda`.
 
@@ -29,7 +29,7 @@ corrects both the tail and any scale bias of the fixed :math:`\lambda`.
     \varepsilon_{t-1}^2 + \beta\,\sigma_{t-1}^2, \qquad \varepsilon_t = r_t - \mu,
 
 estimated by maximum likelihood by the ``arch`` package with errdist's law as its
-distribution (:class:`errdist.arch_law.SkewedErrorInnovations`); ``asymmetric=False`` gives
+distribution (:class:`errdist.risk.arch_law.SkewedErrorInnovations`); ``asymmetric=False`` gives
 GARCH(1,1) (Bollerslev 1986), :math:`\gamma = 0`. Standard errors are ``arch``'s robust
 (Bollerslev-Wooldridge) ones.
 
@@ -41,7 +41,7 @@ drift.
 
 VaR and ES of tomorrow follow in closed form from the law:
 :math:`\mathrm{VaR}_c = -(\mu + \sigma q_{1-c})`, :math:`\mathrm{ES}_c = -(\mu + \sigma
-e_{1-c})` with :math:`(q, e)` from :func:`errdist.innovation_law.lower_tail`.
+e_{1-c})` with :math:`(q, e)` from :func:`errdist.risk.innovation_law.lower_tail`.
 
 Cautions: conditional figures move with the last days' returns (one large loss raises
 tomorrow's VaR at once); the parameters are estimates (see the standard errors), and the
@@ -62,8 +62,8 @@ from scipy import signal
 
 from errdist._validate import fmt_number as _fmt
 from errdist.errors import DomainError, InputTypeError, InsufficientDataError
-from errdist.innovation_law import lower_tail
-from errdist.skewed_mle import fit_skewed_law
+from errdist.risk.innovation_law import lower_tail
+from errdist.risk.skewed_mle import fit_skewed_law
 
 __all__ = [
     "EWMA_LAMBDA",
@@ -219,7 +219,7 @@ def law_risk(
     r"""VaR and ES of the law :math:`\mu + \sigma Z` (standardized two-piece :math:`Z`).
 
     :math:`\mathrm{VaR} = -(\mu + \sigma q)`, :math:`\mathrm{ES} = -(\mu + \sigma e)`,
-    :math:`(q, e)` = :func:`errdist.innovation_law.lower_tail` at :math:`1 - c`. Arrays
+    :math:`(q, e)` = :func:`errdist.risk.innovation_law.lower_tail` at :math:`1 - c`. Arrays
     broadcast.
     """
     q, e = lower_tail(1.0 - confidence, np.asarray(shape, float), np.asarray(skew, float))
@@ -268,7 +268,7 @@ def _numeric_se(x: NDArray[np.float64], f: Any) -> tuple[float, ...]:
     Hessian is avoided: for shapes near or below 1 the log density has a cusp at the mode
     and a finite-difference second derivative there is dominated by single observations.
     """
-    from errdist.innovation_law import standardized_logpdf
+    from errdist.risk.innovation_law import standardized_logpdf
 
     theta = np.array([f.mean, f.std, f.shape, f.skew])
 
@@ -362,7 +362,7 @@ def gjr_model(
     y: NDArray[np.float64], asymmetric: bool = True, mean: str = "constant", skewed: bool = True
 ) -> Any:
     """An ``arch`` GJR-GARCH(1,1) (or GARCH(1,1)) model of ``y`` with errdist's law."""
-    from errdist.arch_law import SkewedErrorInnovations, require_arch
+    from errdist.risk.arch_law import SkewedErrorInnovations, require_arch
 
     require_arch()
     from arch.univariate import GARCH, ConstantMean, ZeroMean

@@ -1,11 +1,11 @@
 r"""Backtest several VaR/ES models side by side on one return series.
 
-For each model (:data:`errdist.forecasts.MODELS`) the rolling one-day forecasts
-(:func:`errdist.forecasts.rolling_forecasts`) are checked against the returns that followed:
+For each model (:data:`errdist.risk.forecasts.MODELS`) the rolling one-day forecasts
+(:func:`errdist.risk.forecasts.rolling_forecasts`) are checked against the returns that followed:
 exceptions, Kupiec's and Christoffersen's likelihood-ratio tests
-(:func:`errdist.backtest.backtest`), the Basel traffic-light zone of the last 250 days
-(:func:`errdist.backtest.traffic_light`) and Acerbi & Szekely's :math:`Z_2` ES test
-(:func:`errdist.es_backtest.es_backtest`, simulation p-value under the forecast laws). All
+(:func:`errdist.checks.backtest.backtest`), the Basel traffic-light zone of the last 250 days
+(:func:`errdist.checks.backtest.traffic_light`) and Acerbi & Szekely's :math:`Z_2` ES test
+(:func:`errdist.checks.es_backtest.es_backtest`, simulation p-value under the forecast laws). All
 models are evaluated on the same days.
 
 The field names of :class:`ModelBacktest` are the keys of ``errdist backtest --format json``
@@ -21,10 +21,10 @@ from typing import Any
 import numpy as np
 from numpy.typing import ArrayLike
 
-from errdist.backtest import backtest, traffic_light
+from errdist.checks.backtest import backtest, traffic_light
+from errdist.checks.es_backtest import es_backtest
 from errdist.errors import InputTypeError
-from errdist.es_backtest import es_backtest
-from errdist.forecasts import MODELS, ForecastPath, rolling_forecasts
+from errdist.risk.forecasts import MODELS, ForecastPath, rolling_forecasts
 
 __all__ = ["ZONE_DAYS", "ModelBacktest", "backtest_models", "summarize"]
 
@@ -100,7 +100,7 @@ def summarize(
     simulations: int = 1000,
     seed: int = 20140101,
 ) -> ModelBacktest:
-    """Backtest one :class:`~errdist.forecasts.ForecastPath` against its returns."""
+    """Backtest one :class:`~errdist.risk.forecasts.ForecastPath` against its returns."""
     sl = slice(path.first, None)
     r = np.asarray(returns, dtype=float)[sl]
     v, e = path.var[sl], path.es[sl]
@@ -120,10 +120,10 @@ def summarize(
     warn = "; ".join(w for w in (path.warning, esb.warning) if w)
     return ModelBacktest(
         model=path.model,
-        n=bt.observations,
+        n=bt.n,
         confidence=c,
         exceptions=bt.exceptions,
-        exception_rate=bt.exceptions / bt.observations,
+        exception_rate=bt.exceptions / bt.n,
         expected_rate=1.0 - c,
         kupiec_statistic=bt.pof.statistic,
         kupiec_pvalue=bt.pof.pvalue,
@@ -159,8 +159,8 @@ def backtest_models(
 ) -> dict[str, ModelBacktest]:
     """Rolling forecasts and backtests of several models on the same days.
 
-    Parameters are those of :func:`errdist.forecasts.rolling_forecasts` and
-    :func:`errdist.es_backtest.es_backtest`. Returns one :class:`ModelBacktest` per model, in
+    Parameters are those of :func:`errdist.risk.forecasts.rolling_forecasts` and
+    :func:`errdist.checks.es_backtest.es_backtest`. Returns one :class:`ModelBacktest` per model, in
     the order given.
     """
     names = [str(m).strip().lower() for m in models]

@@ -3,26 +3,26 @@ r"""Rolling one-day VaR/ES forecasts without look-ahead, for four models.
 Every forecast for day :math:`t` (0-based position in the returns) uses returns
 :math:`r_0, \dots, r_{t-1}` only. Each model's forecast law of day :math:`t` is
 :math:`\mu_t + \sigma_t Z`, :math:`Z` the standardized two-piece error law with shape
-:math:`\nu_t` and skew :math:`\lambda_t` (:mod:`errdist.innovation_law`); the result keeps the
+:math:`\nu_t` and skew :math:`\lambda_t` (:mod:`errdist.risk.innovation_law`); the result keeps the
 four columns, so VaR, ES and the simulations of the ES backtest all come from the same law.
 
 Models
 ------
 ``"symmetric"``
     The symmetric error law fitted every day by exact maximum likelihood to the ``window``
-    returns before the day — the engine and figures of :func:`errdist.backtest.rolling_var`
+    returns before the day — the engine and figures of :func:`errdist.checks.rolling.rolling_var`
     (its VaR column is identical).
 ``"skewed"``
     The two-piece law fitted by maximum likelihood to the ``window`` returns before the day,
     refitted every ``refit`` days (the warm-started search of
-    :func:`errdist.skewed_mle.fit_skewed_law`; see below).
+    :func:`errdist.risk.skewed_mle.fit_skewed_law`; see below).
 ``"ewma"``
-    RiskMetrics EWMA variance (:func:`errdist.conditional.ewma_variance`, daily); the law of
+    RiskMetrics EWMA variance (:func:`errdist.risk.conditional.ewma_variance`, daily); the law of
     the scaled returns :math:`r_s/\sigma_s` over the ``fit_window`` days before the refit day,
     refitted every ``refit`` days.
 
 The law fits of "skewed" and "ewma" use the warm-started Nelder-Mead search of
-:func:`errdist.skewed_mle.fit_skewed_law` rather than the exact fit
+:func:`errdist.risk.skewed_mle.fit_skewed_law` rather than the exact fit
 :func:`errdist.law.skewed.fit_skewed`: the exact fit takes about 0.06 s at 250 points and
 0.6 s at 1,000, too slow for ~200 refits per model within the command's time budget; the
 search reaches the exact fit's log-likelihood to within 0.01 (tested on real windows).
@@ -56,7 +56,9 @@ import numpy as np
 from numpy.typing import ArrayLike, NDArray
 from scipy import special as sc
 
-from errdist.conditional import (
+from errdist.errors import DomainError, InputTypeError, InsufficientDataError
+from errdist.estimate.mle import _mle_sorted
+from errdist.risk.conditional import (
     EWMA_LAMBDA,
     EWMA_SEED_DAYS,
     _confidence,
@@ -67,9 +69,7 @@ from errdist.conditional import (
     gjr_model,
     law_risk,
 )
-from errdist.errors import DomainError, InputTypeError, InsufficientDataError
-from errdist.mle import _mle_sorted
-from errdist.skewed_mle import SkewedLawFit, fit_skewed_law
+from errdist.risk.skewed_mle import SkewedLawFit, fit_skewed_law
 
 __all__ = ["MODELS", "ForecastPath", "rolling_forecasts"]
 
@@ -132,7 +132,7 @@ def _whole(name: str, value: Any, minimum: int) -> int:
 
 
 def _returns(returns: ArrayLike) -> NDArray[np.float64]:
-    from errdist.conditional import clean_returns
+    from errdist.risk.conditional import clean_returns
 
     r, dropped = clean_returns(returns, minimum=2)
     if dropped:
@@ -225,7 +225,7 @@ def gjr_path(
     Returns ``(mean, std, dist_params, refits, warnings)``; ``dist_params`` has one row per
     day with the innovation law's parameters in force that day (NaN before ``first``).
     ``model_factory(y)`` builds the ``arch`` model of the scaled returns ``y`` (default:
-    :func:`errdist.conditional.gjr_model` with errdist's skewed law) — the benchmark passes
+    :func:`errdist.risk.conditional.gjr_model` with errdist's skewed law) — the benchmark passes
     ``arch``'s skew-t model through it to run the identical protocol.
     """
     n = r.size
@@ -296,7 +296,7 @@ def rolling_forecasts(
         Past days each conditional estimation ("ewma" law, "gjr"/"garch") uses.
     refit : int, default 21
         Days between estimations ("skewed", "ewma", "gjr", "garch"; "symmetric" refits
-        daily like :func:`errdist.backtest.rolling_var`).
+        daily like :func:`errdist.checks.rolling.rolling_var`).
     lam : float, default 0.94
         EWMA decay factor.
     first : int, optional

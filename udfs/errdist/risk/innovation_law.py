@@ -12,7 +12,7 @@ the bounded skew :math:`\lambda \in (-1, 1)`): mode :math:`m`, scale :math:`a > 
 The left piece has scale :math:`a(1-\lambda)` and probability :math:`(1-\lambda)/2`, the right
 piece scale :math:`a(1+\lambda)` and probability :math:`(1+\lambda)/2`; :math:`\lambda < 0`
 puts more weight and a longer tail on the loss side. :math:`\lambda = 0` is the symmetric error
-law of :mod:`errdist.distribution`. With :math:`r_k = \Gamma(k/b)/\Gamma(1/b)`:
+law of :mod:`errdist.law.symmetric`. With :math:`r_k = \Gamma(k/b)/\Gamma(1/b)`:
 
 .. math::
 

@@ -34,7 +34,7 @@ import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
 from errdist.errors import DomainError, InputTypeError, InsufficientDataError
-from errdist.innovation_law import rvs
+from errdist.risk.innovation_law import rvs
 
 __all__ = ["Z2_CRITICAL_5", "Z2_CRITICAL_0_01", "EsBacktestResult", "es_backtest", "z2_statistic"]
 
@@ -120,7 +120,7 @@ def es_backtest(
     confidence : float
         Confidence of the forecasts, e.g. 0.99 (:math:`\alpha = 1 - c`).
     law : (mean, std, shape, skew), optional
-        Each day's forecast law :math:`\mu_t + \sigma_t Z` (:mod:`errdist.innovation_law`);
+        Each day's forecast law :math:`\mu_t + \sigma_t Z` (:mod:`errdist.risk.innovation_law`);
         needed for the simulation p-value.
     simulations : int, default 1000
     seed : int, default 20140101

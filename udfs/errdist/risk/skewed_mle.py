@@ -12,7 +12,7 @@ closed form (differentiate :math:`-n\ln a - a^{-b}\sum_i (|x_i-m|/(1\pm\lambda))
 so the search runs over :math:`(m, \ln b, \operatorname{artanh}\lambda)` with Nelder-Mead (the
 profile is not smooth in :math:`m` for :math:`b \le 1`, which rules out gradient methods),
 started from the previous fit when one is given (warm start). The result is reported as the
-law's mean, standard deviation, shape and skew (:mod:`errdist.innovation_law`), i.e. the law of
+law's mean, standard deviation, shape and skew (:mod:`errdist.risk.innovation_law`), i.e. the law of
 :math:`\mu + \sigma Z` with :math:`Z` standardized.
 
 This is the rolling backtest's fitting engine, not an exact-MLE reference: it stops at
@@ -31,7 +31,7 @@ from scipy import optimize
 from scipy import special as sc
 
 from errdist.errors import InsufficientDataError
-from errdist.innovation_law import SHAPE_BOUNDS, SKEW_BOUNDS, standardized_params
+from errdist.risk.innovation_law import SHAPE_BOUNDS, SKEW_BOUNDS, standardized_params
 
 __all__ = ["SkewedLawFit", "fit_skewed_law"]
 
@@ -79,7 +79,7 @@ def fit_skewed_law(x: NDArray[np.float64], start: SkewedLawFit | None = None) ->
     -------
     SkewedLawFit
         ``at_bound`` is True when the shape or skew ended at the search bounds
-        (:data:`~errdist.innovation_law.SHAPE_BOUNDS`, :data:`~errdist.innovation_law.SKEW_BOUNDS`).
+        (:data:`~errdist.risk.innovation_law.SHAPE_BOUNDS`, :data:`~errdist.risk.innovation_law.SKEW_BOUNDS`).
     """
     x = np.asarray(x, dtype=float)
     if x.size < 10:

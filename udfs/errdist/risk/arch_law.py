@@ -4,7 +4,7 @@ r"""errdist's skewed error law as an ``arch`` innovation distribution.
 so that ``arch``'s models (GARCH, GJR-GARCH, ...) estimate with errdist's law as the law of the
 standardized residuals :math:`z_t = \varepsilon_t/\sigma_t`. Parameters: shape :math:`\nu`
 (:math:`b`) and skew :math:`\lambda`; the law has mean 0 and variance 1
-(:func:`errdist.innovation_law.standardized_params`). The log-likelihood of one residual is
+(:func:`errdist.risk.innovation_law.standardized_params`). The log-likelihood of one residual is
 
 .. math::
 
@@ -12,7 +12,7 @@ standardized residuals :math:`z_t = \varepsilon_t/\sigma_t`. Parameters: shape :
     - \left(\frac{|z_t - m|}{a(1+\lambda\,\mathrm{sign}(z_t-m))}\right)^{\nu},
 
 which at :math:`\lambda = 0` is ``arch``'s ``GeneralizedError`` (tested to 1e-10). Unlike
-that class, the shape may go down to :data:`~errdist.innovation_law.SHAPE_BOUNDS` ``[0]`` = 0.3:
+that class, the shape may go down to :data:`~errdist.risk.innovation_law.SHAPE_BOUNDS` ``[0]`` = 0.3:
 daily index residuals have maximum-likelihood shapes near 0.7-1.3, and a bound at 1.01 would
 force a too-light tail. ``arch`` is imported here only; install it with
 ``pip install errdist[volatility]``.
@@ -27,7 +27,7 @@ import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
 from errdist.errors import InputTypeError
-from errdist.innovation_law import (
+from errdist.risk.innovation_law import (
     SHAPE_BOUNDS,
     SKEW_BOUNDS,
     lower_tail,
