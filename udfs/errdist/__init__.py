@@ -15,6 +15,9 @@ The Python API (snake_case, scipy-style names, argument order ``(x, loc, scale, 
 - conditional volatility (EWMA, GJR-GARCH through ``arch``): :func:`fit_ewma`,
   :func:`fit_gjr`; rolling VaR/ES forecasts :func:`rolling_forecasts`; the Acerbi-Szekely ES
   backtest :func:`es_backtest`; side-by-side model backtests :func:`backtest_models`
+- the skewed error law, as the namespace ``errdist.skewed`` (module
+  :mod:`errdist.law.skewed`): ``skewed.pdf``, ``skewed.cdf``, ... ``skewed.fit_skewed``,
+  argument order ``(x, loc, scale, shape, skew)``; skew 0 is the symmetric law above
 
 Errors are :class:`ValueError` subclasses from :mod:`errdist.errors`.
 """
@@ -71,6 +74,9 @@ from errdist.data.returns import returns_from_prices
 from errdist.risk import expected_shortfall, value_at_risk
 
 # isort: split
+from errdist.law import skewed
+
+# isort: split
 from errdist.checks.es_backtest import es_backtest
 from errdist.checks.model_backtest import backtest_models
 from errdist.risk.conditional import ConditionalFit, fit_ewma, fit_gjr
@@ -122,6 +128,7 @@ __all__ = [
     "sample_skewness",
     "sample_std",
     "sf",
+    "skewed",
     "solve_scale",
     "solve_shape",
     "traffic_light",
