@@ -32,8 +32,8 @@ from errdist.risk.innovation_law import (
     SKEW_BOUNDS,
     lower_tail,
     rvs,
+    standardized_cdf,
     standardized_logpdf,
-    standardized_params,
     standardized_ppf,
 )
 
@@ -150,16 +150,8 @@ if _ArchDistribution is not None:
             parameters: Sequence[float] | ArrayLike | None = None,
         ) -> Any:
             r"""Distribution function of the standardized law (tails through :math:`Q`)."""
-            from scipy.special import gammaincc
-
             nu, lam = self._split(self._check_constraints(parameters))
-            m, a = standardized_params(nu, lam)
-            z = np.asarray(resids, dtype=float)
-            d = z - m
-            left = d < 0
-            s = a * np.where(left, 1.0 - lam, 1.0 + lam)
-            tail = gammaincc(1.0 / nu, (np.abs(d) / s) ** nu)
-            return np.where(left, 0.5 * (1.0 - lam) * tail, 1.0 - 0.5 * (1.0 + lam) * tail)
+            return standardized_cdf(np.asarray(resids, dtype=float), nu, lam)
 
         def moment(self, n: int, parameters: Sequence[float] | ArrayLike | None = None) -> float:
             """Moments of order 0, 1, 2 (1, 0, 1); higher orders are not needed here."""

@@ -57,6 +57,7 @@ __all__ = [
     "SKEW_BOUNDS",
     "lower_tail",
     "rvs",
+    "standardized_cdf",
     "standardized_logpdf",
     "standardized_params",
     "standardized_ppf",
@@ -112,6 +113,24 @@ def standardized_logpdf(z: ArrayLike, shape: float, skew: float) -> NDArray[np.f
     s = a * np.where(d < 0.0, 1.0 - skew, 1.0 + skew)
     const = np.log(shape) - np.log(2.0) - np.log(a) - sc.gammaln(1.0 / shape)
     return const - (np.abs(d) / s) ** shape
+
+
+def standardized_cdf(z: ArrayLike, shape: Float, skew: Float) -> NDArray[np.float64]:
+    r"""Distribution function of the standardized law (tails through :math:`Q`).
+
+    :math:`F(z) = \frac{1-\lambda}{2} Q(1/b, (\frac{m-z}{a(1-\lambda)})^b)` for
+    :math:`z < m`, :math:`1 - \frac{1+\lambda}{2} Q(1/b, (\frac{z-m}{a(1+\lambda)})^b)`
+    otherwise.
+    """
+    z = np.asarray(z, dtype=float)
+    shape = np.asarray(shape, dtype=float)
+    skew = np.asarray(skew, dtype=float)
+    m, a = standardized_params(shape, skew)
+    d = z - m
+    left = d < 0
+    s = a * np.where(left, 1.0 - skew, 1.0 + skew)
+    tail = sc.gammaincc(1.0 / shape, (np.abs(d) / s) ** shape)
+    return np.where(left, 0.5 * (1.0 - skew) * tail, 1.0 - 0.5 * (1.0 + skew) * tail)
 
 
 def standardized_ppf(u: Float, shape: Float, skew: Float) -> Float:
