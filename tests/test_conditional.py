@@ -126,3 +126,14 @@ def test_blanks_dropped_and_bad_input_messages() -> None:
         fit_gjr(_sp500()[:400], confidence=99)
     with pytest.raises(InputTypeError, match="mean"):
         fit_gjr(_sp500()[:400], mean="ar1")
+
+
+def test_convergence_problems_are_reported_not_hidden() -> None:
+    # arch's ConvergenceWarning (SLSQP return code and message) becomes the warning text.
+    from errdist.risk.conditional import fit_arch_quietly, gjr_model
+
+    y = np.random.default_rng(0).standard_normal(300)
+    _, warning = fit_arch_quietly(gjr_model(y), options={"maxiter": 2})
+    assert "code 9" in warning and "Iteration limit" in warning
+    _, clean = fit_arch_quietly(gjr_model(y))
+    assert clean == ""

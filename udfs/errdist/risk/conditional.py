@@ -377,11 +377,21 @@ def gjr_model(
 
 
 def fit_arch_quietly(model: Any, **kwargs: Any) -> Any:
-    """``model.fit`` without output; convergence warnings are returned in ``.warning``."""
+    """``model.fit`` without output; returns ``(result, warning_text)``.
+
+    ``arch``'s ``ConvergenceWarning`` (the optimiser's return code and message) becomes the
+    warning text; other ``arch`` warnings (e.g. starting values replaced) are dropped.
+    """
+    from arch.utility.exceptions import ConvergenceWarning
+
     with warnings.catch_warnings(record=True) as caught:
         warnings.simplefilter("always")
         res = model.fit(disp="off", show_warning=True, **kwargs)
-    msgs = [str(w.message).splitlines()[0] for w in caught if "converg" in str(w.message).lower()]
+    msgs = [
+        " ".join(str(w.message).split("See scipy")[0].split())
+        for w in caught
+        if issubclass(w.category, ConvergenceWarning)
+    ]
     return res, "; ".join(msgs)
 
 
