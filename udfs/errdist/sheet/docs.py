@@ -41,7 +41,7 @@ _KINDS = {
 _INTRO = """\
 # Worksheet functions
 
-<!-- Generated from udfs/errdist/sheet/catalog.py by `python -m errdist.sheet.docs`.
+<!-- Generated from udfs/errdist/sheet/catalog/ by `python -m errdist.sheet.docs`.
      Do not edit by hand: a test fails when this file is stale. -->
 
 Every function is in the function wizard's category **{category}**. They work the same in
