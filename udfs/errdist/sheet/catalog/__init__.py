@@ -17,8 +17,10 @@ The entries live in one module per subject, assembled here in this order into th
 ordered :data:`CATALOG`: :mod:`~errdist.sheet.catalog.law` (density, probabilities, quantiles,
 draws, moments, solvers), :mod:`~errdist.sheet.catalog.estimate` (fits),
 :mod:`~errdist.sheet.catalog.data` (returns), :mod:`~errdist.sheet.catalog.about` (versions),
-:mod:`~errdist.sheet.catalog.risk` (VaR, ES) and :mod:`~errdist.sheet.catalog.checks`
-(backtests, goodness of fit, rival laws, chart points). Shared parameter descriptions and
+:mod:`~errdist.sheet.catalog.risk` (VaR, ES), :mod:`~errdist.sheet.catalog.checks`
+(backtests, goodness of fit, rival laws, chart points), :mod:`~errdist.sheet.catalog.skewed`
+(the skewed error law) and :mod:`~errdist.sheet.catalog.conditional` (conditional volatility
+models, rolling forecasts, the ES backtest). Shared parameter descriptions and
 examples are in :mod:`~errdist.sheet.catalog.shared`.
 
 Adding a worksheet function
@@ -59,7 +61,7 @@ from __future__ import annotations
 from types import ModuleType
 from typing import Any
 
-from errdist.sheet.catalog import about, checks, data, estimate, law, risk
+from errdist.sheet.catalog import about, checks, conditional, data, estimate, law, risk, skewed
 from errdist.sheet.cells import SheetError
 from errdist.sheet.entry import (
     CATEGORY,
@@ -92,7 +94,16 @@ __all__ = [
     "text",
 ]
 
-SUBJECTS: tuple[ModuleType, ...] = (law, estimate, data, about, risk, checks)
+SUBJECTS: tuple[ModuleType, ...] = (
+    law,
+    estimate,
+    data,
+    about,
+    risk,
+    checks,
+    skewed,
+    conditional,
+)
 """The catalog modules, in the order of the function reference."""
 
 #: Name -> entry, in the order of the function reference.
