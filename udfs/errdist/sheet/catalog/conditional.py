@@ -331,8 +331,11 @@ ENTRIES: tuple[Entry, ...] = (
                 spill=False,
             ),
             _decay_param(),
-            flag("header", "TRUE adds a row of column labels above (the rows then start one "
-                 "row lower than the returns)."),
+            flag(
+                "header",
+                "TRUE adds a row of column labels above (the rows then start one "
+                "row lower than the returns).",
+            ),
         ),
         result="table",
         header=FORECAST_COLUMNS,
