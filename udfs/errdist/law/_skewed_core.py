@@ -35,13 +35,13 @@ from scipy.special import gammaln
 from errdist._validate import as_float_array, raise_first
 from errdist._validate import fmt_number as _fmt
 from errdist.errors import DomainError
-
-from errdist.law import moments as _sym_moments
 from errdist.law import symmetric as _sym
+from errdist.law._incgamma import _log_q_array, _q_array
 
 FloatOrArray = float | NDArray[np.float64]
 
 _FAST = frozenset({float, int, np.float64})
+_LOG_HALF = -math.log(2.0)
 _INF = math.inf
 
 
@@ -110,6 +110,51 @@ def _out(arr: NDArray[np.float64]) -> FloatOrArray:
     return float(arr) if arr.ndim == 0 else arr
 
 
+def _pieces(
+    v: NDArray[np.float64],
+    params: tuple[NDArray[np.float64], ...],
+    first: NDArray[np.bool_],
+    f_first,  # type: ignore[no-untyped-def]
+    f_other,  # type: ignore[no-untyped-def]
+) -> FloatOrArray:
+    """Evaluate ``f_first(v, m, a, b, lam)`` where ``first`` holds and ``f_other`` elsewhere,
+    each on its own elements only (half the work of computing both everywhere)."""
+    args = (v, *params)
+    shape = np.broadcast_shapes(*(x.shape for x in args))
+    out = np.empty(shape)
+    first = np.broadcast_to(first, shape)
+    for sel, f in ((first, f_first), (~first, f_other)):
+        if not np.any(sel):
+            continue
+        sub = [x if x.ndim == 0 else np.broadcast_to(x, shape)[sel] for x in args]
+        out[sel] = f(*sub)
+    return _out(out)
+
+
+def _side_offsets(
+    x: ArrayLike,
+    m: NDArray[np.float64],
+    a: NDArray[np.float64],
+    lam: NDArray[np.float64],
+) -> tuple[NDArray[np.bool_], NDArray[np.float64], NDArray[np.float64]]:
+    """``x < m``, the standardised offset ``(x - m)/(a s)`` and the side factor ``s = 1 -+ l``
+    (the same operations as the symmetric law's with scale ``a s``)."""
+    xa = as_float_array("x", x)
+    below = xa < m
+    s = np.where(below, 1.0 - lam, 1.0 + lam)
+    with np.errstate(over="ignore"):  # |x - m| / a beyond the float range is inf: fine
+        d = np.subtract(xa, m) / (a * s)
+    return below, d, s
+
+
+def _pdf_left(x, m, a, b, lam):  # type: ignore[no-untyped-def]
+    return (1.0 - lam) * _sym.pdf(x, m, a * (1.0 - lam), b)
+
+
+def _pdf_right(x, m, a, b, lam):  # type: ignore[no-untyped-def]
+    return (1.0 + lam) * _sym.pdf(x, m, a * (1.0 + lam), b)
+
+
 # --------------------------------------------------------------------------------------------
 # densities
 # --------------------------------------------------------------------------------------------
@@ -152,8 +197,7 @@ def pdf(
     if _all_zero(lam):
         return _sym.pdf(x, m, a, b)
     xa = as_float_array("x", x)
-    s = np.where(xa < m, 1.0 - lam, 1.0 + lam)
-    return _out(s * _sym.pdf(xa, m, a * s, b))
+    return _pieces(xa, (m, a, b, lam), xa < m, _pdf_left, _pdf_right)
 
 
 def logpdf(
@@ -180,9 +224,13 @@ def logpdf(
     m, a, b, lam = _arrays(loc, scale, shape, skew)
     if _all_zero(lam):
         return _sym.logpdf(x, m, a, b)
+    # one pass, the same operations as the symmetric law's with scale a(1 +- l)
     xa = as_float_array("x", x)
     t = np.where(xa < m, -lam, lam)
-    return _out(np.log1p(t) + _sym.logpdf(xa, m, a * (1.0 + t), b))
+    sc = a * (1.0 + t)
+    with np.errstate(over="ignore"):
+        z = np.abs(np.subtract(xa, m) / sc) ** b
+    return _out(np.log1p(t) + ((np.log(0.5 * b / sc) - gammaln(1.0 / b)) - z))
 
 
 # --------------------------------------------------------------------------------------------
@@ -205,14 +253,10 @@ def _tail(
     m, a, b, lam = _arrays(loc, scale, shape, skew)
     if _all_zero(lam):
         return _sym.sf(x, m, a, b) if upper else _sym.cdf(x, m, a, b)
-    xa = as_float_array("x", x)
-    lo, hi = 1.0 - lam, 1.0 + lam
-    left = lo * np.asarray(_sym.cdf(xa, m, a * lo, b))
-    right = hi * np.asarray(_sym.sf(xa, m, a * hi, b))
-    below = xa < m
-    if upper:
-        return _out(np.where(below, 1.0 - left, right))
-    return _out(np.where(below, left, 1.0 - right))
+    below, d, s = _side_offsets(x, m, a, lam)
+    h = s * (0.5 * _q_array(d, b))  # the far-side mass of the side x is on
+    near = 1.0 - h
+    return _out(np.where(below, near, h) if upper else np.where(below, h, near))
 
 
 def cdf(
@@ -269,18 +313,11 @@ def _log_tail(
     m, a, b, lam = _arrays(loc, scale, shape, skew)
     if _all_zero(lam):
         return _sym.logsf(x, m, a, b) if upper else _sym.logcdf(x, m, a, b)
-    xa = as_float_array("x", x)
-    lo, hi = 1.0 - lam, 1.0 + lam
-    below = xa < m
-    # each piece is used only on its own side; elsewhere it is replaced by a harmless 0
-    if upper:
-        left = np.where(below, lo * np.asarray(_sym.cdf(xa, m, a * lo, b)), 0.0)
-        far = np.log1p(lam) + np.asarray(_sym.logsf(xa, m, a * hi, b))
-        return _out(np.where(below, np.log1p(-left), far))
-    far = np.log1p(-lam) + np.asarray(_sym.logcdf(xa, m, a * lo, b))
-    right = np.where(below, 0.0, hi * np.asarray(_sym.sf(xa, m, a * hi, b)))
-    near = np.log1p(-right)
-    return _out(np.where(below, far, near))
+    below, d, s = _side_offsets(x, m, a, lam)
+    q, lq = _log_q_array(d, b)
+    far = np.log1p(np.where(below, -lam, lam)) + (_LOG_HALF + lq)
+    near = np.log1p(-(s * (0.5 * q)))
+    return _out(np.where(below, near, far) if upper else np.where(below, far, near))
 
 
 def logcdf(
@@ -343,22 +380,26 @@ def _quantile(
     ok = (pa >= 0.0) & (pa <= 1.0)
     if not np.all(ok):
         raise_first("p", pa, ~ok, "in [0, 1]")
-    lo, hi = 1.0 - lam, 1.0 + lam
+    params = (m, a, b, lam)
     if upper:
-        right_side = pa < 0.5 * hi
-        far = np.asarray(
-            _sym.isf(np.where(right_side, np.minimum(pa / hi, 0.5), 0.5), m, a * hi, b)
+        return _pieces(
+            pa,
+            params,
+            pa < 0.5 * (1.0 + lam),
+            lambda p_, m_, a_, b_, l_: _sym.isf(p_ / (1.0 + l_), m_, a_ * (1.0 + l_), b_),
+            lambda p_, m_, a_, b_, l_: _sym.ppf(
+                np.minimum((1.0 - p_) / (1.0 - l_), 0.5), m_, a_ * (1.0 - l_), b_
+            ),
         )
-        near = np.asarray(
-            _sym.ppf(np.where(right_side, 0.5, np.minimum((1.0 - pa) / lo, 0.5)), m, a * lo, b)
-        )
-        return _out(np.where(right_side, far, near))
-    left_side = pa < 0.5 * lo
-    far = np.asarray(_sym.ppf(np.where(left_side, np.minimum(pa / lo, 0.5), 0.5), m, a * lo, b))
-    near = np.asarray(
-        _sym.isf(np.where(left_side, 0.5, np.minimum((1.0 - pa) / hi, 0.5)), m, a * hi, b)
+    return _pieces(
+        pa,
+        params,
+        pa < 0.5 * (1.0 - lam),
+        lambda p_, m_, a_, b_, l_: _sym.ppf(p_ / (1.0 - l_), m_, a_ * (1.0 - l_), b_),
+        lambda p_, m_, a_, b_, l_: _sym.isf(
+            np.minimum((1.0 - p_) / (1.0 + l_), 0.5), m_, a_ * (1.0 + l_), b_
+        ),
     )
-    return _out(np.where(left_side, far, near))
 
 
 def ppf(
@@ -446,124 +487,3 @@ def rvs(
             "draws overflow the float range: loc or scale is too large for this shape"
         )
     return _out(draws)
-
-
-# --------------------------------------------------------------------------------------------
-# moments
-# --------------------------------------------------------------------------------------------
-def _g(k: int, b: NDArray[np.float64]) -> NDArray[np.float64]:
-    r""":math:`g_k = \Gamma((k+1)/b)/\Gamma(1/b) = E|Y_0|^k` of the symmetric standard law."""
-    return np.exp(gammaln((k + 1.0) / b) - gammaln(1.0 / b))
-
-
-def raw_moment_pieces(k: int, shape: ArrayLike, skew: ArrayLike) -> FloatOrArray:
-    r""":math:`E[Y^k]` of the standard skewed law (m = 0, a = 1).
-
-    .. math::
-
-        E[Y^k] = \frac{\Gamma((k+1)/b)}{\Gamma(1/b)}\cdot
-                 \frac{(1+\lambda)^{k+1} + (-1)^k (1-\lambda)^{k+1}}{2}
-
-    (each side: :math:`\int_0^\infty y^k \tfrac{b}{2\Gamma(1/b)} e^{-(y/s)^b} dy
-    = s^{k+1}\Gamma((k+1)/b)/(2\Gamma(1/b))` with :math:`s = 1\pm\lambda`).
-    """
-    _, _, b, lam = _arrays(0.0, 1.0, shape, skew)
-    sgn = -1.0 if k % 2 else 1.0
-    with np.errstate(over="ignore"):
-        return _out(_g(k, b) * 0.5 * ((1.0 + lam) ** (k + 1) + sgn * (1.0 - lam) ** (k + 1)))
-
-
-def mean(loc: ArrayLike, scale: ArrayLike, shape: ArrayLike, skew: ArrayLike = 0.0) -> FloatOrArray:
-    r"""Mean :math:`m + 2\lambda a\,\Gamma(2/b)/\Gamma(1/b)` (``loc`` exactly at skew 0)."""
-    m, a, b, lam = _arrays(loc, scale, shape, skew)
-    with np.errstate(over="ignore"):
-        return _out(m + 2.0 * lam * a * _g(1, b))
-
-
-def _var1(b: NDArray[np.float64], lam: NDArray[np.float64]) -> NDArray[np.float64]:
-    r"""Variance of the standard skewed law: :math:`g_2(1+3\lambda^2) - 4\lambda^2 g_1^2`."""
-    g1, g2 = _g(1, b), _g(2, b)
-    return g2 + lam * lam * (3.0 * g2 - 4.0 * g1 * g1)
-
-
-def variance(scale: ArrayLike, shape: ArrayLike, skew: ArrayLike = 0.0) -> FloatOrArray:
-    r"""Variance of the skewed error law.
-
-    .. math::
-
-        \operatorname{Var} X = a^2\left[g_2(1 + 3\lambda^2) - 4\lambda^2 g_1^2\right],
-        \qquad g_k = \Gamma((k+1)/b)/\Gamma(1/b)
-
-    from :math:`E[Y] = 2\lambda g_1`, :math:`E[Y^2] = g_2(1+3\lambda^2)`
-    (:func:`raw_moment_pieces`). Skew 0: the symmetric :func:`errdist.variance`.
-    """
-    _, a, b, lam = _arrays(0.0, scale, shape, skew)
-    if _all_zero(lam):
-        return _sym_moments.variance(a if a.ndim else float(a), b if b.ndim else float(b))
-    with np.errstate(over="ignore", invalid="ignore"):
-        return _out(a * a * _var1(b, lam))
-
-
-def skewness(shape: ArrayLike, skew: ArrayLike = 0.0) -> FloatOrArray:
-    r"""Skewness :math:`\mu_3/\sigma^3` (free of loc and scale).
-
-    .. math::
-
-        \mu_3 = \lambda\left[4(1+\lambda^2) g_3 - 6(1+3\lambda^2) g_1 g_2 + 16\lambda^2 g_1^3\right]
-
-    (the central third moment from the raw moments of :func:`raw_moment_pieces`). Its sign
-    is the sign of :math:`\lambda`; 0 at skew 0.
-    """
-    _, _, b, lam = _arrays(0.0, 1.0, shape, skew)
-    with np.errstate(over="ignore", invalid="ignore"):
-        g1, g2, g3 = _g(1, b), _g(2, b), _g(3, b)
-        l2 = lam * lam
-        mu3 = lam * (4.0 * (1.0 + l2) * g3 - 6.0 * (1.0 + 3.0 * l2) * g1 * g2 + 16.0 * l2 * g1**3)
-        return _out(mu3 / _var1(b, lam) ** 1.5)
-
-
-def excess_kurtosis(shape: ArrayLike, skew: ArrayLike = 0.0) -> FloatOrArray:
-    r"""Excess kurtosis :math:`\mu_4/\sigma^4 - 3`.
-
-    .. math::
-
-        \mu_4 = g_4 + \lambda^2(10 g_4 - 32 g_1 g_3 + 24 g_1^2 g_2)
-                + \lambda^4(5 g_4 - 32 g_1 g_3 + 72 g_1^2 g_2 - 48 g_1^4)
-
-    (central fourth moment, expanded in :math:`\lambda` so no large terms cancel).
-    Skew 0: the symmetric :func:`errdist.excess_kurtosis`.
-    """
-    _, _, b, lam = _arrays(0.0, 1.0, shape, skew)
-    if _all_zero(lam):
-        return _sym_moments.excess_kurtosis(b if b.ndim else float(b))
-    with np.errstate(over="ignore", invalid="ignore"):
-        g1, g2, g3, g4 = _g(1, b), _g(2, b), _g(3, b), _g(4, b)
-        l2 = lam * lam
-        mu4 = (
-            g4
-            + l2 * (10.0 * g4 - 32.0 * g1 * g3 + 24.0 * g1 * g1 * g2)
-            + l2 * l2 * (5.0 * g4 - 32.0 * g1 * g3 + 72.0 * g1 * g1 * g2 - 48.0 * g1**4)
-        )
-        v = _var1(b, lam)
-        return _out(mu4 / (v * v) - 3.0)
-
-
-def standardized_params(
-    shape: ArrayLike, skew: ArrayLike = 0.0
-) -> tuple[FloatOrArray, FloatOrArray]:
-    r"""(loc, scale) giving the skewed law mean 0 and variance 1, for innovation laws.
-
-    .. math::
-
-        a = \left[g_2(1+3\lambda^2) - 4\lambda^2 g_1^2\right]^{-1/2}, \qquad
-        m = -2\lambda a\, g_1
-
-    so :math:`Z = m + aY` has :math:`E Z = 0`, :math:`\operatorname{Var} Z = 1`.
-    Skew 0: ``(0.0, (Γ(1/b)/Γ(3/b))**0.5)``.
-    """
-    _, _, b, lam = _arrays(0.0, 1.0, shape, skew)
-    with np.errstate(over="ignore", invalid="ignore"):
-        a = 1.0 / np.sqrt(_var1(b, lam))
-        m = -2.0 * lam * a * _g(1, b)
-        m = m + 0.0  # -0.0 -> 0.0
-    return _out(m), _out(a)
