@@ -12,6 +12,9 @@ The Python API (snake_case, scipy-style names, argument order ``(x, loc, scale, 
 - backtesting: :func:`kupiec`, :func:`christoffersen`, :func:`traffic_light`,
   :func:`backtest`, :func:`rolling_var`
 - data: :func:`returns_from_prices`
+- the skewed error law, as the namespace ``errdist.skewed`` (module
+  :mod:`errdist.law.skewed`): ``skewed.pdf``, ``skewed.cdf``, ... ``skewed.fit_skewed``,
+  argument order ``(x, loc, scale, shape, skew)``; skew 0 is the symmetric law above
 
 Errors are :class:`ValueError` subclasses from :mod:`errdist.errors`.
 """
@@ -67,6 +70,9 @@ from errdist.checks.rolling import rolling_var
 from errdist.data.returns import returns_from_prices
 from errdist.risk import expected_shortfall, value_at_risk
 
+# isort: split
+from errdist.law import skewed
+
 __all__ = [
     "SHAPE_MAX",
     "SHAPE_MIN",
@@ -107,6 +113,7 @@ __all__ = [
     "sample_skewness",
     "sample_std",
     "sf",
+    "skewed",
     "solve_scale",
     "solve_shape",
     "traffic_light",

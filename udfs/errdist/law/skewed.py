@@ -42,11 +42,17 @@ from errdist.law._skewed_core import (
     standardized_params,
     variance,
 )
+from errdist.law._skewed_fit import SKEW_MAX, SkewedFit, fit_skewed
+from errdist.law._skewed_risk import expected_shortfall, value_at_risk
 
 __all__ = [
+    "SKEW_MAX",
+    "SkewedFit",
     "cdf",
     "check_params",
     "excess_kurtosis",
+    "expected_shortfall",
+    "fit_skewed",
     "isf",
     "logcdf",
     "logpdf",
@@ -59,5 +65,6 @@ __all__ = [
     "sf",
     "skewness",
     "standardized_params",
+    "value_at_risk",
     "variance",
 ]
