@@ -272,12 +272,14 @@ def _log_tail(
     xa = as_float_array("x", x)
     lo, hi = 1.0 - lam, 1.0 + lam
     below = xa < m
+    # each piece is used only on its own side; elsewhere it is replaced by a harmless 0
     if upper:
-        near = np.log1p(-lo * np.asarray(_sym.cdf(xa, m, a * lo, b)))
+        left = np.where(below, lo * np.asarray(_sym.cdf(xa, m, a * lo, b)), 0.0)
         far = np.log1p(lam) + np.asarray(_sym.logsf(xa, m, a * hi, b))
-        return _out(np.where(below, near, far))
+        return _out(np.where(below, np.log1p(-left), far))
     far = np.log1p(-lam) + np.asarray(_sym.logcdf(xa, m, a * lo, b))
-    near = np.log1p(-hi * np.asarray(_sym.sf(xa, m, a * hi, b)))
+    right = np.where(below, 0.0, hi * np.asarray(_sym.sf(xa, m, a * hi, b)))
+    near = np.log1p(-right)
     return _out(np.where(below, far, near))
 
 
