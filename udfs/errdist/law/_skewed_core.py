@@ -35,7 +35,6 @@ from scipy.special import gammaln
 from errdist._validate import as_float_array, raise_first
 from errdist._validate import fmt_number as _fmt
 from errdist.errors import DomainError
-
 from errdist.law import moments as _sym_moments
 from errdist.law import symmetric as _sym
 

@@ -16,14 +16,19 @@ with ``+`` for xᵢ ≥ m. Write R(m) = Σ_{x>m}(x−m)^b and L(m) = Σ_{x<m}(m�
   constrained optimum); a clip is reported as ``at_bound``.
 * Profile: ℓ(m, b) = n[ln b − ln 2 − ln Γ(1/b) − (1/b)·ln(b·S/n) − 1/b].
 * Location: for b ≤ 1, R and L are concave between neighbouring observations, hence so
-  are A and B and (before clipping) A + B: the best m is an observation. Every distinct
-  observation is a candidate when n ≤ 2,000; above that a coarse pass over 257 evenly spaced
-  ranks is followed by an exhaustive window of ranks around the best one, widened until the
-  best candidate is inside it. For b > 1 the best observation is then refined by bounded
+  are A and B and (before clipping) A + B: the best m is an observation. A full search takes
+  every distinct observation as a candidate when n ≤ 2,000; above that a coarse pass over
+  257 evenly spaced ranks is followed by a window of ranks around the best one, widened until
+  the best candidate is inside it. For b > 1 the best observation is then refined by bounded
   Brent minimisation of S(m) over the two neighbouring gaps.
 * Shape: ℓ*(b) = max over m of ℓ(m, b) is evaluated on a fixed grid of 25 shapes,
   log-spaced over [SHAPE_MIN, SHAPE_MAX], and refined by bounded Brent search around the best
-  grid point(s); the bounds themselves are evaluated exactly.
+  grid point(s) (the grid takes observations only as locations, the refinement also the
+  points between them); the bounds themselves are evaluated exactly. Along the way the location is
+  searched in a window of 0.2·√n/b + 8 ranks around the previous shape's best observation
+  (widened until the best is well inside); at the chosen shape every candidate is searched
+  again, and should that find a better location the whole shape search is repeated with
+  every candidate at every shape.
 
 There is no starting point: the result depends only on the multiset of data (it is the same
 for any order of the observations). The data are centred on the median and divided by
@@ -100,21 +105,13 @@ class _Sample:
         self.ys = ys
         self.n = ys.size
         self.uv = np.unique(ys)  # candidate locations (distinct observations)
-        self.ld: np.ndarray | None = None
-        if self.n <= _EXHAUSTIVE_N:
-            d = np.subtract.outer(self.uv, ys)
-            with np.errstate(divide="ignore"):
-                self.ld = np.log(np.abs(d))  # -inf at ties: exp(b * -inf) = 0
-            self.pos = (d > 0.0).astype(np.float64)
-            self.neg = (d < 0.0).astype(np.float64)
 
-    # -- S at candidate locations -------------------------------------------------------
     def rl_at(self, cand: np.ndarray, b: float) -> tuple[np.ndarray, np.ndarray]:
         """(R, L) at the candidate locations ``cand`` (direct, in blocks)."""
         ys = self.ys
         r = np.empty(cand.size)
         lft = np.empty(cand.size)
-        step = max(1, (1 << 20) // self.n)
+        step = max(1, (1 << 18) // self.n)
         for k in range(0, cand.size, step):
             d = ys[None, :] - cand[k : k + step, None]
             p = np.abs(d) ** b
@@ -122,61 +119,66 @@ class _Sample:
             lft[k : k + step] = np.where(d < 0.0, p, 0.0).sum(axis=1)
         return r, lft
 
-    def s_at_obs(self, idx: np.ndarray | None, b: float) -> tuple[np.ndarray, np.ndarray]:
-        """(S, λ) minimised over λ at the distinct observations ``uv[idx]`` (all if None)."""
-        if idx is None and self.ld is not None:
-            p = np.exp(b * self.ld)
-            r = np.einsum("ij,ij->i", p, self.neg)  # d = uv - y < 0: y above the candidate
-            lft = np.einsum("ij,ij->i", p, self.pos)
-        else:
-            r, lft = self.rl_at(self.uv if idx is None else self.uv[idx], b)
-        return _s_min(r, lft, b)
-
-    def best_obs(self, b: float) -> tuple[float, int]:
-        """(S, index into uv) of the best distinct observation as location."""
+    def _window(self, b: float, lo: int, hi: int, half: int) -> tuple[float, int]:
+        """Best distinct observation, searching ranks [lo, hi) and widening the window until
+        the best one is at least half/2 ranks inside what has been searched."""
         nu = self.uv.size
-        if nu <= _EXHAUSTIVE_N:
-            s, _ = self.s_at_obs(None, b)
-            j = int(np.argmin(s))
-            return float(s[j]), j
-        coarse = np.unique(np.linspace(0, nu - 1, _COARSE).round().astype(np.intp))
-        s, _ = self.s_at_obs(coarse, b)
-        j = int(coarse[int(np.argmin(s))])
-        half = nu // (_COARSE - 1) + int(math.ceil(0.2 * math.sqrt(self.n) / b)) + 8
-        lo, hi = max(j - half, 0), min(j + half + 1, nu)
+        best_s, best_j = math.inf, -1
+        seen_lo, seen_hi = lo, hi
         while True:
-            idx = np.arange(lo, hi)
-            s, _ = self.s_at_obs(idx, b)
+            s, _ = _s_min(*self.rl_at(self.uv[lo:hi], b), b)
             k = int(np.argmin(s))
-            jb = lo + k
-            grow = False
-            if jb - lo < half // 2 and lo > 0:
-                lo, grow = max(lo - half, 0), True
-            if hi - 1 - jb < half // 2 and hi < nu:
-                hi, grow = min(hi + half, nu), True
-            if not grow:
-                return float(s[k]), jb
+            if s[k] < best_s:
+                best_s, best_j = float(s[k]), lo + k
+            seen_lo, seen_hi = min(seen_lo, lo), max(seen_hi, hi)
+            if best_j - seen_lo < half // 2 and seen_lo > 0:
+                lo, hi = max(seen_lo - half, 0), seen_lo
+            elif seen_hi - 1 - best_j < half // 2 and seen_hi < nu:
+                lo, hi = seen_hi, min(seen_hi + half, nu)
+            else:
+                return best_s, best_j
+
+    def best_obs(self, b: float, j0: int | None = None) -> tuple[float, int]:
+        """(S, index into uv) of the best distinct observation as location.
+
+        ``j0`` None: every distinct observation (n <= 2,000), or 257 evenly spaced ranks then
+        a window around the best. Otherwise a window of 0.2·√n/b + 8 ranks either side of
+        ``j0``, widened until the best candidate is well inside it.
+        """
+        nu = self.uv.size
+        half = int(math.ceil(0.2 * math.sqrt(self.n) / b)) + 8
+        if j0 is None:
+            if nu <= _EXHAUSTIVE_N:
+                s, _ = _s_min(*self.rl_at(self.uv, b), b)
+                j = int(np.argmin(s))
+                return float(s[j]), j
+            coarse = np.unique(np.linspace(0, nu - 1, _COARSE).round().astype(np.intp))
+            s, _ = _s_min(*self.rl_at(self.uv[coarse], b), b)
+            j0 = int(coarse[int(np.argmin(s))])
+            half += nu // (_COARSE - 1)
+        return self._window(b, max(j0 - half, 0), min(j0 + half + 1, nu), half)
 
     def s_cont(self, m: float, b: float) -> float:
         """S minimised over λ at any location ``m``."""
         r, lft = self.rl_at(np.array([m]), b)
         return float(_s_min(r, lft, b)[0][0])
 
-    def best_loc(self, b: float) -> tuple[float, float]:
-        """(S, m): the location minimising S for shape ``b``."""
-        s_obs, j = self.best_obs(b)
+    def best_loc(
+        self, b: float, j0: int | None = None, refine: bool = True
+    ) -> tuple[float, float, int]:
+        """(S, m, j): the location minimising S for shape ``b`` and the best observation's
+        index (see :meth:`best_obs` for ``j0``); without ``refine`` only observations are
+        candidates (for b > 1 an S at most slightly too large)."""
+        s_obs, j = self.best_obs(b, j0)
         m = float(self.uv[j])
-        if b <= 1.0:
-            return s_obs, m
+        if b <= 1.0 or not refine:
+            return s_obs, m, j
         best_s, best_m = s_obs, m
         uv = self.uv
+        width = float(uv[-1]) - float(uv[0])
         for lo, hi in ((j - 1, j), (j, j + 1)):
-            left = float(uv[lo]) if lo >= 0 else float(uv[0]) - (float(uv[-1]) - float(uv[0]))
-            right = (
-                float(uv[hi]) if hi < uv.size else float(uv[-1]) + (float(uv[-1]) - float(uv[0]))
-            )
-            if not left < right:
-                continue
+            left = float(uv[lo]) if lo >= 0 else float(uv[0]) - width
+            right = float(uv[hi]) if hi < uv.size else float(uv[-1]) + width
             res = minimize_scalar(
                 lambda t: self.s_cont(t, b),
                 bounds=(left, right),
@@ -185,7 +187,7 @@ class _Sample:
             )
             if res.fun < best_s:
                 best_s, best_m = float(res.fun), float(res.x)
-        return best_s, best_m
+        return best_s, best_m, j
 
 
 def _s_min(r: np.ndarray, lft: np.ndarray, b: float) -> tuple[np.ndarray, np.ndarray]:
@@ -205,17 +207,21 @@ def _profile(s: float, n: int, b: float) -> float:
     return n * (math.log(b) - _LOG2 - float(gammaln(1.0 / b)) - math.log(b * s / n) / b - 1.0 / b)
 
 
-def _fit_sorted(ys: np.ndarray) -> tuple[float, float, float, float]:
-    """(m, a, b, λ) of standardised sorted data."""
-    smp = _Sample(ys)
+def _shape_search(smp: _Sample, exhaustive: bool) -> tuple[float, float]:
+    """(b, ℓ) maximising the profile over the shape; locations searched in windows that
+    follow the best observation from shape to shape (every candidate if ``exhaustive``)."""
     n = smp.n
-    cache: dict[float, float] = {}
+    cache: dict[float, tuple[float, int]] = {}
+    last_j: list[int | None] = [None]
+    refine = [False]  # the grid ranks shapes on observations only; Brent refines
 
     def ll(u: float) -> float:
         if u not in cache:
             b = math.exp(u)
-            cache[u] = _profile(smp.best_loc(b)[0], n, b)
-        return cache[u]
+            s, _, j = smp.best_loc(b, None if exhaustive else last_j[0], refine[0])
+            last_j[0] = j
+            cache[u] = (_profile(s, n, b), j)
+        return cache[u][0]
 
     u_min, u_max = math.log(SHAPE_MIN), math.log(SHAPE_MAX)
     grid = np.linspace(u_min, u_max, _GRID)
@@ -226,7 +232,9 @@ def _fit_sorted(ys: np.ndarray) -> tuple[float, float, float, float]:
     if int(order[1]) not in (tops[0] - 1, tops[0] + 1):
         tops.append(int(order[1]))  # a second, separate peak: refine it too
     best_u, best_v = float(grid[tops[0]]), float(vals[tops[0]])
+    refine[0] = True
     for k in tops:
+        last_j[0] = cache[float(grid[k])][1]
         lo, hi = float(grid[max(k - 1, 0)]), float(grid[min(k + 1, _GRID - 1)])
         res = minimize_scalar(
             lambda u: -ll(u), bounds=(lo, hi), method="bounded", options={"xatol": 1e-10}
@@ -238,7 +246,23 @@ def _fit_sorted(ys: np.ndarray) -> tuple[float, float, float, float]:
         b = SHAPE_MIN
     elif best_u == u_max:
         b = SHAPE_MAX
-    s, m = smp.best_loc(b)
+    return b, best_v
+
+
+def _fit_sorted(ys: np.ndarray) -> tuple[float, float, float, float]:
+    """(m, a, b, λ) of standardised sorted data.
+
+    The shape search follows the best location in windows; at the chosen shape the location
+    is then searched over every candidate. Should that find a better location than the
+    window did, the shape search is repeated with every candidate at every shape.
+    """
+    smp = _Sample(ys)
+    n = smp.n
+    b, ll_window = _shape_search(smp, exhaustive=False)
+    s, m, _ = smp.best_loc(b)
+    if _profile(s, n, b) > ll_window + 1e-9 * max(1.0, abs(ll_window)):
+        b, _ = _shape_search(smp, exhaustive=True)
+        s, m, _ = smp.best_loc(b)
     r, lft = smp.rl_at(np.array([m]), b)
     s_arr, lam_arr = _s_min(r, lft, b)
     lam = float(lam_arr[0])
