@@ -37,10 +37,12 @@ from errdist._validate import fmt_number as _fmt
 from errdist.errors import DomainError
 from errdist.law import moments as _sym_moments
 from errdist.law import symmetric as _sym
+from errdist.law._incgamma import _log_q_array, _q_array
 
 FloatOrArray = float | NDArray[np.float64]
 
 _FAST = frozenset({float, int, np.float64})
+_LOG_HALF = -math.log(2.0)
 _INF = math.inf
 
 
@@ -109,6 +111,59 @@ def _out(arr: NDArray[np.float64]) -> FloatOrArray:
     return float(arr) if arr.ndim == 0 else arr
 
 
+def _pieces(
+    v: NDArray[np.float64],
+    params: tuple[NDArray[np.float64], ...],
+    first: NDArray[np.bool_],
+    f_first,  # type: ignore[no-untyped-def]
+    f_other,  # type: ignore[no-untyped-def]
+) -> FloatOrArray:
+    """Evaluate ``f_first(v, m, a, b, lam)`` where ``first`` holds and ``f_other`` elsewhere,
+    each on its own elements only (half the work of computing both everywhere)."""
+    args = (v, *params)
+    shape = np.broadcast_shapes(*(x.shape for x in args))
+    out = np.empty(shape)
+    first = np.broadcast_to(first, shape)
+    for sel, f in ((first, f_first), (~first, f_other)):
+        if not np.any(sel):
+            continue
+        sub = [x if x.ndim == 0 else np.broadcast_to(x, shape)[sel] for x in args]
+        out[sel] = f(*sub)
+    return _out(out)
+
+
+def _side_offsets(
+    x: ArrayLike,
+    m: NDArray[np.float64],
+    a: NDArray[np.float64],
+    lam: NDArray[np.float64],
+) -> tuple[NDArray[np.bool_], NDArray[np.float64], NDArray[np.float64]]:
+    """``x < m``, the standardised offset ``(x - m)/(a s)`` and the side factor ``s = 1 -+ l``
+    (the same operations as the symmetric law's with scale ``a s``)."""
+    xa = as_float_array("x", x)
+    below = xa < m
+    s = np.where(below, 1.0 - lam, 1.0 + lam)
+    with np.errstate(over="ignore"):  # |x - m| / a beyond the float range is inf: fine
+        d = np.subtract(xa, m) / (a * s)
+    return below, d, s
+
+
+def _pdf_left(x, m, a, b, lam):  # type: ignore[no-untyped-def]
+    return (1.0 - lam) * _sym.pdf(x, m, a * (1.0 - lam), b)
+
+
+def _pdf_right(x, m, a, b, lam):  # type: ignore[no-untyped-def]
+    return (1.0 + lam) * _sym.pdf(x, m, a * (1.0 + lam), b)
+
+
+def _logpdf_left(x, m, a, b, lam):  # type: ignore[no-untyped-def]
+    return np.log1p(-lam) + _sym.logpdf(x, m, a * (1.0 - lam), b)
+
+
+def _logpdf_right(x, m, a, b, lam):  # type: ignore[no-untyped-def]
+    return np.log1p(lam) + _sym.logpdf(x, m, a * (1.0 + lam), b)
+
+
 # --------------------------------------------------------------------------------------------
 # densities
 # --------------------------------------------------------------------------------------------
@@ -151,8 +206,7 @@ def pdf(
     if _all_zero(lam):
         return _sym.pdf(x, m, a, b)
     xa = as_float_array("x", x)
-    s = np.where(xa < m, 1.0 - lam, 1.0 + lam)
-    return _out(s * _sym.pdf(xa, m, a * s, b))
+    return _pieces(xa, (m, a, b, lam), xa < m, _pdf_left, _pdf_right)
 
 
 def logpdf(
@@ -180,8 +234,7 @@ def logpdf(
     if _all_zero(lam):
         return _sym.logpdf(x, m, a, b)
     xa = as_float_array("x", x)
-    t = np.where(xa < m, -lam, lam)
-    return _out(np.log1p(t) + _sym.logpdf(xa, m, a * (1.0 + t), b))
+    return _pieces(xa, (m, a, b, lam), xa < m, _logpdf_left, _logpdf_right)
 
 
 # --------------------------------------------------------------------------------------------
@@ -204,14 +257,10 @@ def _tail(
     m, a, b, lam = _arrays(loc, scale, shape, skew)
     if _all_zero(lam):
         return _sym.sf(x, m, a, b) if upper else _sym.cdf(x, m, a, b)
-    xa = as_float_array("x", x)
-    lo, hi = 1.0 - lam, 1.0 + lam
-    left = lo * np.asarray(_sym.cdf(xa, m, a * lo, b))
-    right = hi * np.asarray(_sym.sf(xa, m, a * hi, b))
-    below = xa < m
-    if upper:
-        return _out(np.where(below, 1.0 - left, right))
-    return _out(np.where(below, left, 1.0 - right))
+    below, d, s = _side_offsets(x, m, a, lam)
+    h = s * (0.5 * _q_array(d, b))  # the far-side mass of the side x is on
+    near = 1.0 - h
+    return _out(np.where(below, near, h) if upper else np.where(below, h, near))
 
 
 def cdf(
@@ -268,18 +317,11 @@ def _log_tail(
     m, a, b, lam = _arrays(loc, scale, shape, skew)
     if _all_zero(lam):
         return _sym.logsf(x, m, a, b) if upper else _sym.logcdf(x, m, a, b)
-    xa = as_float_array("x", x)
-    lo, hi = 1.0 - lam, 1.0 + lam
-    below = xa < m
-    # each piece is used only on its own side; elsewhere it is replaced by a harmless 0
-    if upper:
-        left = np.where(below, lo * np.asarray(_sym.cdf(xa, m, a * lo, b)), 0.0)
-        far = np.log1p(lam) + np.asarray(_sym.logsf(xa, m, a * hi, b))
-        return _out(np.where(below, np.log1p(-left), far))
-    far = np.log1p(-lam) + np.asarray(_sym.logcdf(xa, m, a * lo, b))
-    right = np.where(below, 0.0, hi * np.asarray(_sym.sf(xa, m, a * hi, b)))
-    near = np.log1p(-right)
-    return _out(np.where(below, far, near))
+    below, d, s = _side_offsets(x, m, a, lam)
+    q, lq = _log_q_array(d, b)
+    far = np.log1p(np.where(below, -lam, lam)) + (_LOG_HALF + lq)
+    near = np.log1p(-(s * (0.5 * q)))
+    return _out(np.where(below, near, far) if upper else np.where(below, far, near))
 
 
 def logcdf(
@@ -342,22 +384,26 @@ def _quantile(
     ok = (pa >= 0.0) & (pa <= 1.0)
     if not np.all(ok):
         raise_first("p", pa, ~ok, "in [0, 1]")
-    lo, hi = 1.0 - lam, 1.0 + lam
+    params = (m, a, b, lam)
     if upper:
-        right_side = pa < 0.5 * hi
-        far = np.asarray(
-            _sym.isf(np.where(right_side, np.minimum(pa / hi, 0.5), 0.5), m, a * hi, b)
+        return _pieces(
+            pa,
+            params,
+            pa < 0.5 * (1.0 + lam),
+            lambda p_, m_, a_, b_, l_: _sym.isf(p_ / (1.0 + l_), m_, a_ * (1.0 + l_), b_),
+            lambda p_, m_, a_, b_, l_: _sym.ppf(
+                np.minimum((1.0 - p_) / (1.0 - l_), 0.5), m_, a_ * (1.0 - l_), b_
+            ),
         )
-        near = np.asarray(
-            _sym.ppf(np.where(right_side, 0.5, np.minimum((1.0 - pa) / lo, 0.5)), m, a * lo, b)
-        )
-        return _out(np.where(right_side, far, near))
-    left_side = pa < 0.5 * lo
-    far = np.asarray(_sym.ppf(np.where(left_side, np.minimum(pa / lo, 0.5), 0.5), m, a * lo, b))
-    near = np.asarray(
-        _sym.isf(np.where(left_side, 0.5, np.minimum((1.0 - pa) / hi, 0.5)), m, a * hi, b)
+    return _pieces(
+        pa,
+        params,
+        pa < 0.5 * (1.0 - lam),
+        lambda p_, m_, a_, b_, l_: _sym.ppf(p_ / (1.0 - l_), m_, a_ * (1.0 - l_), b_),
+        lambda p_, m_, a_, b_, l_: _sym.isf(
+            np.minimum((1.0 - p_) / (1.0 + l_), 0.5), m_, a_ * (1.0 + l_), b_
+        ),
     )
-    return _out(np.where(left_side, far, near))
 
 
 def ppf(
