@@ -27,22 +27,24 @@ from __future__ import annotations
 from errdist.law._skewed_core import (
     cdf,
     check_params,
-    excess_kurtosis,
     isf,
     logcdf,
     logpdf,
     logsf,
-    mean,
     pdf,
     ppf,
-    raw_moment_pieces,
     rvs,
     sf,
+)
+from errdist.law._skewed_fit import SKEW_MAX, SkewedFit, fit_skewed
+from errdist.law._skewed_moments import (
+    excess_kurtosis,
+    mean,
+    raw_moment_pieces,
     skewness,
     standardized_params,
     variance,
 )
-from errdist.law._skewed_fit import SKEW_MAX, SkewedFit, fit_skewed
 from errdist.law._skewed_risk import expected_shortfall, value_at_risk
 
 __all__ = [
