@@ -30,6 +30,7 @@ import math
 
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
+from scipy.special import gammaln
 
 from errdist._validate import as_float_array, raise_first
 from errdist._validate import fmt_number as _fmt
@@ -154,14 +155,6 @@ def _pdf_right(x, m, a, b, lam):  # type: ignore[no-untyped-def]
     return (1.0 + lam) * _sym.pdf(x, m, a * (1.0 + lam), b)
 
 
-def _logpdf_left(x, m, a, b, lam):  # type: ignore[no-untyped-def]
-    return np.log1p(-lam) + _sym.logpdf(x, m, a * (1.0 - lam), b)
-
-
-def _logpdf_right(x, m, a, b, lam):  # type: ignore[no-untyped-def]
-    return np.log1p(lam) + _sym.logpdf(x, m, a * (1.0 + lam), b)
-
-
 # --------------------------------------------------------------------------------------------
 # densities
 # --------------------------------------------------------------------------------------------
@@ -231,8 +224,13 @@ def logpdf(
     m, a, b, lam = _arrays(loc, scale, shape, skew)
     if _all_zero(lam):
         return _sym.logpdf(x, m, a, b)
+    # one pass, the same operations as the symmetric law's with scale a(1 +- l)
     xa = as_float_array("x", x)
-    return _pieces(xa, (m, a, b, lam), xa < m, _logpdf_left, _logpdf_right)
+    t = np.where(xa < m, -lam, lam)
+    sc = a * (1.0 + t)
+    with np.errstate(over="ignore"):
+        z = np.abs(np.subtract(xa, m) / sc) ** b
+    return _out(np.log1p(t) + ((np.log(0.5 * b / sc) - gammaln(1.0 / b)) - z))
 
 
 # --------------------------------------------------------------------------------------------
