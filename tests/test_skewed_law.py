@@ -387,8 +387,14 @@ def test_bad_skew_and_p_are_named() -> None:
         K.pdf(0.0, 0.0, 1.0, 2.0, np.array([0.1, 2.0]))
     with pytest.raises(InputTypeError):
         K.cdf(0.0, 0.0, 1.0, 2.0, "left")
-    with pytest.raises(DomainError, match="scale must be > 0"):
-        K.cdf(0.0, 0.0, -1.0, 2.0, 0.2)
+    # the message shows the scale as given, not the side's scale a(1 -+ l)
+    for fn in (K.cdf, K.sf, K.pdf, K.logpdf, K.logcdf, K.logsf, K.ppf, K.isf):
+        with pytest.raises(DomainError, match="scale must be > 0, got -1$"):
+            fn(0.3, 0.0, -1.0, 2.0, 0.2)
+        with pytest.raises(DomainError, match="scale must be > 0, got -1 at position 1"):
+            fn(np.array([0.3, 0.4]), 0.0, np.array([1.0, -1.0]), 2.0, 0.2)
+        with pytest.raises(DomainError, match="shape must be > 0, got 0$"):
+            fn(0.3, 0.0, 1.0, 0.0, -0.2)
     with pytest.raises(DomainError, match="p must be in"):
         K.ppf(1.5, 0.0, 1.0, 2.0, 0.2)
     with pytest.raises(DomainError, match="p must be in"):

@@ -84,6 +84,8 @@ def _fast(x: object, loc: object, scale: object, shape: object, skew: object) ->
     ):
         if not -1.0 < skew < 1.0:  # type: ignore[operator]
             raise DomainError(f"skew must be in (-1, 1) (exclusive), got {_fmt(skew)}")
+        if not (0.0 < scale < _INF and 0.0 < shape < _INF and -_INF < loc < _INF):  # type: ignore[operator]
+            _sym.check_params(loc, scale, shape)  # the message names the value as given
         return True
     return False
 

@@ -159,9 +159,16 @@ class _Sample:
         return self._window(b, max(j0 - half, 0), min(j0 + half + 1, nu), half)
 
     def s_cont(self, m: float, b: float) -> float:
-        """S minimised over λ at any location ``m``."""
-        r, lft = self.rl_at(np.array([m]), b)
-        return float(_s_min(r, lft, b)[0][0])
+        """S minimised over λ at any location ``m`` (the sorted data split at ``m``)."""
+        ys = self.ys
+        k = int(np.searchsorted(ys, m, "left"))
+        j = int(np.searchsorted(ys, m, "right"))
+        r = float(np.sum((ys[j:] - m) ** b))
+        lft = float(np.sum((m - ys[:k]) ** b))
+        c = 1.0 / (b + 1.0)
+        a_, b_ = r**c, lft**c
+        lam = min(max((a_ - b_) / (a_ + b_), -SKEW_MAX), SKEW_MAX)
+        return r * (1.0 + lam) ** (-b) + lft * (1.0 - lam) ** (-b)
 
     def best_loc(
         self, b: float, j0: int | None = None, refine: bool = True
