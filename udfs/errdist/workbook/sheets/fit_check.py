@@ -191,10 +191,12 @@ def _loss_tail(sp: SheetPlan, ctx: Context, first: int) -> None:
         sk = ",".join(ctx.keys[f"skew_{p}"] for p in ("loc", "scale", "shape", "skew"))
         sp.spill(f"W{top}", k, 1, f"=ERRDIST_SKEW_CDF(L{a}:L{b},{sk})", "sci")
         ctx.keys["tail_skewed"] = "W"
+    # The normal lower tail as erfc(-z/sqrt 2)/2: NORM.DIST(..., TRUE) is 1/2 (1 + erf(...)) in
+    # some engines, which loses digits far in the lower tail.
     for i in range(k):
         sp.formula(
             f"X{top + i}",
-            f"=NORM.DIST(L{a + i},{ctx.keys['mean']},{ctx.keys['sd']},TRUE)",
+            f"=ERFC(({ctx.keys['mean']}-L{a + i})/({ctx.keys['sd']}*SQRT(2)))/2",
             "sci",
         )
     sp.text(
