@@ -155,6 +155,16 @@ def test_cond_gjr_cells_match_core_arch_and_the_gjr_recursion(xl: Any) -> None:
     for e in r - mu:
         s2 = om + (al + ga * (e < 0)) * e * e + be * s2
     assert rows["volatility tomorrow"][0] == pytest.approx(math.sqrt(s2), rel=1e-6)
+    # The log-likelihood in return units, by hand: sum of log f(z_t) - log sigma_t with the
+    # same recursion (its start differs from arch's backcast: 1e-3 relative).
+    nu, lam = rows["nu"][0], rows["skew"][0]
+    m, a = skewed.standardized_params(nu, lam)
+    s2, ll = float(np.var(r)), 0.0
+    for e in r - mu:
+        sd = math.sqrt(s2)
+        ll += float(skewed.logpdf(e / sd, m, a, nu, lam)) - math.log(sd)
+        s2 = om + (al + ga * (e < 0)) * e * e + be * s2
+    assert rows["log-likelihood"][0] == pytest.approx(ll, rel=1e-3)
     # arch's own GJR-GARCH with its skew-t law on the same data (another innovation law, so
     # loose bounds): the same volatility dynamics.
     from arch import arch_model

@@ -205,16 +205,15 @@ def _comparison(sp: SheetPlan, ctx: Context) -> str:
         )
         ctx.keys[f"cmp_{model}_verdict"] = absref(NAME, f"{col}{rr}")
         assert verdict_ref(ctx, model) == ctx.keys[f"cmp_{model}_verdict"]
-    sp.paragraph(
-        f"N{rr + 2}",
-        f"A model passes when the Kupiec and Christoffersen p-values and the ES backtest "
-        f"p-value are above {PASS_LEVEL:g} (5%, common practice, no source) and its zone is "
-        "green. All four models forecast the same days from the returns before each day. "
-        "Passing is evidence, not proof: 250 days hold only about 2.5 expected exceptions "
-        "at 99%.",
-        5,
-        "note_wrap",
+    notes = (
+        f"A model passes when its Kupiec, Christoffersen and ES-backtest p-values are above "
+        f"{PASS_LEVEL:g}",
+        "(5%, common practice, no source) and its zone is green. All four models forecast the",
+        "same days from the returns before each day. Passing is evidence, not proof: 250 days",
+        "hold only about 2.5 expected exceptions at 99%.",
     )
+    for i, note in enumerate(notes):
+        sp.text(f"N{rr + 2 + i}", note, "note")
     return "R"
 
 

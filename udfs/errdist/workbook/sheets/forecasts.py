@@ -159,6 +159,13 @@ def layout(plan: Plan, ctx: Context) -> None:
             ctx.keys[f"cmp_{model}_es {row[0]}"] = absref(NAME, cell(e2.row + i, e2.col + 1))
         ctx.keys[f"cmp_{model}_var_today"] = absref(NAME, cell(last - 1, c0))
         ctx.keys[f"cmp_{model}_es_today"] = absref(NAME, cell(last - 1, c0 + 1))
+    sp.text("AC1", f"Backtests of the forecasts — {ctx.fund}", "title")
+    sp.text(
+        "AC2",
+        f"Each model over the last {ZONE_DAYS} days; the forecasts themselves are in columns "
+        "D to AA.",
+        "subtitle",
+    )
     end_row = 4 + len(bt_rows) + 1 + len(es_rows) + 1
     sp.paragraph(
         f"AC{end_row + 1}",

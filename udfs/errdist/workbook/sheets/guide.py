@@ -21,7 +21,7 @@ LAYOUT_LAST = True
 def layout(plan: Plan, ctx: Context) -> None:
     """Lay out the Guide: heading, key figures (from ``ctx.keys``) and the guide text."""
     sp = plan.add_sheet(NAME)
-    sp.width("A", 30)
+    sp.width("A", 31)
     sp.width("B", 22)
     sp.width("C", 70)
     sp.tab_color = "#1F3864"
@@ -66,7 +66,7 @@ def layout(plan: Plan, ctx: Context) -> None:
             (
                 "Goodness-of-fit p-value",
                 "=" + p,
-                "key",
+                "key_p",
                 "below 0.05: the data are unlikely under the fitted law",
             ),
         ]
@@ -82,7 +82,7 @@ def layout(plan: Plan, ctx: Context) -> None:
     if "aic_winner" in ctx.keys:
         key_rows.append(
             (
-                "Skewed vs symmetric error law",
+                "Skewed vs symmetric law",
                 "=" + ctx.keys["aic_winner"],
                 "key_text",
                 "the one with the lower AIC (Models sheet)",
@@ -93,7 +93,7 @@ def layout(plan: Plan, ctx: Context) -> None:
         gap = f"ABS({mom}-{mle})/{mle}"
         key_rows.append(
             (
-                "Shapes: moments vs maximum likelihood",
+                "Shapes, moments vs MLE",
                 f'=IF({gap}>{SHAPE_GAP_MARGIN},"WARNING: they differ by more than '
                 f'{SHAPE_GAP_MARGIN:.0%}","agree within {SHAPE_GAP_MARGIN:.0%}")',
                 "key_text",
@@ -120,14 +120,14 @@ def layout(plan: Plan, ctx: Context) -> None:
                 "conditional model chosen on the Models sheet (the one passing the backtest)",
             ),
             (
-                "Today's VaR 99%, conditional model",
+                "Today's VaR 99%, model",
                 "=" + ctx.keys["cond_var99"],
                 "key_pct",
                 "model named on the Models sheet (GJR-GARCH, skewed law, by default); Risk sheet",
             ),
-            ("Today's ES 99%, conditional model", "=" + ctx.keys["cond_es99"], "key_pct", ""),
+            ("Today's ES 99%, model", "=" + ctx.keys["cond_es99"], "key_pct", ""),
             (
-                "Today's ES 97.5%, conditional model",
+                "Today's ES 97.5%, model",
                 "=" + ctx.keys["cond_es975"],
                 "key_pct",
                 "the Basel market-risk (FRTB 2019) ES level",
@@ -139,10 +139,11 @@ def layout(plan: Plan, ctx: Context) -> None:
                 "Backtest verdict, GJR-GARCH",
                 "=" + ctx.keys["cmp_gjr_verdict"],
                 "key_text",
-                "last 250 days, 99% VaR and the ES backtest (Backtest sheet)",
+                "last 250 days: 99% VaR exceptions, Kupiec, Christoffersen, zone, ES backtest "
+                "(Backtest sheet)",
             ),
             (
-                "Exceptions, GJR-GARCH, last 250 days",
+                "Exceptions, GJR-GARCH",
                 "=" + ctx.keys["cmp_gjr_row_exceptions"],
                 "key_int",
                 "",
@@ -161,10 +162,10 @@ def layout(plan: Plan, ctx: Context) -> None:
                 "",
             ),
             (
-                "Backtest verdict, error law (rolling fit)",
+                "Backtest verdict, error law",
                 "=" + ctx.keys["cmp_symmetric_verdict"],
                 "key_text",
-                "the unconditional symmetric law for comparison",
+                "the unconditional symmetric law, refitted daily to 250 days, for comparison",
             ),
         ]
     if "bt_zone" in ctx.keys:

@@ -225,6 +225,7 @@ def layout(plan: Plan, ctx: Context) -> None:
     )
     top += step
     normal_top = top
+    sp.page_breaks.append(top - 1)  # the normal law and the ratios on the next page
     table(top, "Normal law, same mean and standard deviation (built-ins only)", normal)
     top += step
     # Ratio fitted / normal.
