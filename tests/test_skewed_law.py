@@ -24,7 +24,13 @@ import errdist
 from errdist.errors import DomainError, InputTypeError
 from errdist.law import skewed as K
 
-mp.mp.dps = 40
+
+@pytest.fixture(autouse=True)
+def _mp_digits():  # type: ignore[no-untyped-def]
+    """40 significant digits for every mpmath reference here, whatever other modules set."""
+    with mp.workdps(40):
+        yield
+
 
 SHAPES = [0.4, 0.7, 1.0, 1.3, 2.0, 3.5, 8.0]
 SKEWS = [-0.9, -0.5, -0.15, 0.2, 0.6]
