@@ -105,6 +105,36 @@ class _Sample:
         self.ys = ys
         self.n = ys.size
         self.uv = np.unique(ys)  # candidate locations (distinct observations)
+        # where each candidate's ties start and end in the sorted data
+        self.left = np.searchsorted(ys, self.uv, "left")
+        self.right = np.searchsorted(ys, self.uv, "right")
+        self._rows: dict[int, np.ndarray] = {}  # candidate -> ln|y - uv[j]|, then a -inf
+
+    def rl_obs(self, idx: np.ndarray, b: float) -> tuple[np.ndarray, np.ndarray]:
+        """(R, L) at the distinct observations ``uv[idx]``.
+
+        The rows ln|y − uv[j]| (−inf at ties, and one −inf appended) are kept for the fit,
+        so a new shape costs one exp per element; each row's sums over y below, at and above
+        the candidate come from one ``reduceat`` over the sorted data. An empty "below"
+        segment (the smallest observation) reads its first element, a tie, whose term is 0.
+        """
+        rows = self._rows
+        missing = [int(j) for j in idx if int(j) not in rows]
+        if missing:
+            c = self.uv[missing]
+            with np.errstate(divide="ignore"):
+                block = np.log(np.abs(self.ys[None, :] - c[:, None]))
+            block = np.concatenate((block, np.full((len(missing), 1), -math.inf)), axis=1)
+            for j, row in zip(missing, block, strict=True):
+                rows[j] = row
+        width = self.n + 1
+        p = np.stack([rows[int(j)] for j in idx])
+        p *= b
+        np.exp(p, out=p)
+        start = np.arange(idx.size) * width
+        cuts = np.stack((start, start + self.left[idx], start + self.right[idx]), axis=1)
+        sums = np.add.reduceat(p.ravel(), cuts.ravel())
+        return sums[2::3], sums[0::3]
 
     def rl_at(self, cand: np.ndarray, b: float) -> tuple[np.ndarray, np.ndarray]:
         """(R, L) at the candidate locations ``cand`` (direct, in blocks)."""
@@ -126,7 +156,7 @@ class _Sample:
         best_s, best_j = math.inf, -1
         seen_lo, seen_hi = lo, hi
         while True:
-            s, _ = _s_min(*self.rl_at(self.uv[lo:hi], b), b)
+            s, _ = _s_min(*self.rl_obs(np.arange(lo, hi), b), b)
             k = int(np.argmin(s))
             if s[k] < best_s:
                 best_s, best_j = float(s[k]), lo + k
@@ -149,11 +179,11 @@ class _Sample:
         half = int(math.ceil(0.2 * math.sqrt(self.n) / b)) + 8
         if j0 is None:
             if nu <= _EXHAUSTIVE_N:
-                s, _ = _s_min(*self.rl_at(self.uv, b), b)
+                s, _ = _s_min(*self.rl_obs(np.arange(nu), b), b)
                 j = int(np.argmin(s))
                 return float(s[j]), j
             coarse = np.unique(np.linspace(0, nu - 1, _COARSE).round().astype(np.intp))
-            s, _ = _s_min(*self.rl_at(self.uv[coarse], b), b)
+            s, _ = _s_min(*self.rl_at(self.uv[coarse], b), b)  # not kept: used once per shape
             j0 = int(coarse[int(np.argmin(s))])
             half += nu // (_COARSE - 1)
         return self._window(b, max(j0 - half, 0), min(j0 + half + 1, nu), half)
