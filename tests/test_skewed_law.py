@@ -24,7 +24,13 @@ import errdist
 from errdist.errors import DomainError, InputTypeError
 from errdist.law import skewed as K
 
-mp.mp.dps = 40
+
+@pytest.fixture(autouse=True)
+def _mp_digits():  # type: ignore[no-untyped-def]
+    """40 significant digits for every mpmath reference here, whatever other modules set."""
+    with mp.workdps(40):
+        yield
+
 
 SHAPES = [0.4, 0.7, 1.0, 1.3, 2.0, 3.5, 8.0]
 SKEWS = [-0.9, -0.5, -0.15, 0.2, 0.6]
@@ -403,3 +409,18 @@ def test_bad_skew_and_p_are_named() -> None:
         K.value_at_risk(1.0, 0.0, 1.0, 2.0, 0.2)
     with pytest.raises(DomainError, match="seed"):
         K.rvs(3, 0.0, 1.0, 2.0, 0.2, seed=-1)
+
+
+@pytest.mark.parametrize("nu", [1.2, 1.5, 2.0, 3.0])
+def test_standardized_law_at_skew_zero_is_arch_generalized_error(nu: float) -> None:
+    # Source: arch.univariate.GeneralizedError (arch's standardized error law, shape nu):
+    # log f(e / sigma) - log sigma with the (loc, scale) of standardized_params, skew 0.
+    arch_uni = pytest.importorskip("arch.univariate", reason="the arch package is not installed")
+    rng = np.random.default_rng(1)
+    e = 0.01 * rng.standard_normal(500)
+    s2 = 1e-4 * (1.0 + rng.random(500))
+    ref = arch_uni.GeneralizedError().loglikelihood(np.array([nu]), e, s2, individual=True)
+    loc, scale = K.standardized_params(nu, 0.0)
+    sd = np.sqrt(s2)
+    ours = K.logpdf(e / sd, loc, scale, nu, 0.0) - np.log(sd)
+    np.testing.assert_allclose(ours, ref, rtol=1e-13)
