@@ -7,7 +7,10 @@ Sub-commands dispatch to the modules that own the work:
 - ``errdist check``    audit a workbook (``errdist.workbook.commands.run_check``)
 - ``errdist backtest`` backtest VaR/ES models over a price history
   (``errdist.backtest_command.run_backtest``)
+- ``errdist freeze``   a values copy for recipients (``errdist.workbook.commands.run_freeze``)
 - ``errdist vba``      write the VBA module for manual import (``errdist.sheet.vba.main``)
+- ``errdist libreoffice install|uninstall``  live functions in LibreOffice Calc
+  (``errdist.libreoffice.commands.run``)
 - ``errdist version``  versions, for audit trails
 
 Errors in the user's input are printed as one line on standard error with exit code 2; no
@@ -31,14 +34,45 @@ def _dispatch(module: str, function: str) -> Callable[[argparse.Namespace], int]
     return run
 
 
-def _run_demo(args: argparse.Namespace) -> int:
-    try:
-        commands = importlib.import_module("errdist.workbook.commands")
-    except ImportError:
-        from errdist.data.demo_report import print_demo_fit
+#: Packages of the ``headless`` extra (the workbook commands need them).
+HEADLESS_PACKAGES = frozenset({"formulas", "xlsxwriter", "openpyxl", "defusedxml"})
+HEADLESS_HINT = 'pip install "errdist[headless]"'
 
-        return print_demo_fit()
-    return int(commands.run_demo(args) or 0)
+
+def _missing_headless(exc: ImportError) -> str | None:
+    """The missing package of the headless extra behind ``exc``, or None."""
+    root = (exc.name or "").split(".")[0].lower()
+    return root if root in HEADLESS_PACKAGES else None
+
+
+#: Commands that read or write workbooks (they need the headless extra).
+WORKBOOK_COMMANDS = frozenset({"refresh", "check", "freeze"})
+
+
+def missing_headless_package() -> str | None:
+    """The first package of the headless extra that cannot be imported, or None."""
+    import importlib.util
+
+    for name in sorted(HEADLESS_PACKAGES):
+        try:
+            if importlib.util.find_spec(name) is None:
+                return name
+        except (ImportError, ValueError):
+            return name
+    return None
+
+
+def _run_demo(args: argparse.Namespace) -> int:
+    if missing_headless_package() is None:
+        try:
+            commands = importlib.import_module("errdist.workbook.commands")
+            return int(commands.run_demo(args) or 0)
+        except ImportError as exc:
+            if _missing_headless(exc) is None:
+                raise
+    from errdist.data.demo_report import print_demo_fit
+
+    return print_demo_fit()
 
 
 def _run_version(args: argparse.Namespace) -> int:
@@ -70,6 +104,12 @@ def build_parser() -> argparse.ArgumentParser:
         help="workbook to write (default: errdist-demo.xlsx in the current folder)",
     )
     demo.add_argument("--force", action="store_true", help="overwrite an existing file")
+    demo.add_argument(
+        "--values-copy",
+        dest="values_copy",
+        default=None,
+        help="also write a values copy (no formulas) for readers without the add-in",
+    )
     demo.set_defaults(func=_run_demo)
 
     refresh = sub.add_parser("refresh", help="build the month's workbook from a prices file")
@@ -94,6 +134,12 @@ def build_parser() -> argparse.ArgumentParser:
         help="name of the price column (default: detected)",
     )
     refresh.add_argument("--force", action="store_true", help="overwrite an existing file")
+    refresh.add_argument(
+        "--values-copy",
+        dest="values_copy",
+        default=None,
+        help="also write a values copy (no formulas) for readers without the add-in",
+    )
     refresh.set_defaults(func=_dispatch("errdist.workbook.commands", "run_refresh"))
 
     check = sub.add_parser(
@@ -104,11 +150,52 @@ def build_parser() -> argparse.ArgumentParser:
     check.add_argument(
         "--tolerance", type=float, default=1e-9, help="relative tolerance (default 1e-9)"
     )
+    check.add_argument(
+        "--engine",
+        choices=("formulas", "libreoffice"),
+        default="formulas",
+        help="what recomputes: the headless 'formulas' engine (default) or LibreOffice Calc, "
+        "live (needs libreoffice-calc, python3-uno, libreoffice-script-provider-python)",
+    )
+    check.add_argument(
+        "--venv",
+        default=None,
+        help="with --engine libreoffice: virtual environment made with LibreOffice's Python "
+        "(default: this one)",
+    )
     check.set_defaults(func=_dispatch("errdist.workbook.commands", "run_check"))
 
     from errdist.backtest_command import add_parser as add_backtest
 
     add_backtest(sub)
+
+    freeze = sub.add_parser(
+        "freeze", help="write a values copy of a workbook (no formulas) for recipients"
+    )
+    freeze.add_argument("book", help="the live workbook (.xlsx)")
+    freeze.add_argument("--out", required=True, help="the values copy to write (.xlsx)")
+    freeze.add_argument("--force", action="store_true", help="overwrite an existing file")
+    freeze.set_defaults(func=_dispatch("errdist.workbook.commands", "run_freeze"))
+
+    lo = sub.add_parser("libreoffice", help="live ERRDIST_ functions in LibreOffice Calc")
+    lo_sub = lo.add_subparsers(dest="lo_command", metavar="ACTION")
+    lo_install = lo_sub.add_parser(
+        "install", help="install (or refresh) the functions in a LibreOffice profile"
+    )
+    lo_uninstall = lo_sub.add_parser("uninstall", help="remove them from the profile")
+    for p in (lo_install, lo_uninstall):
+        p.add_argument(
+            "--profile",
+            default=None,
+            help="LibreOffice profile folder (default: the user's, e.g. ~/.config/libreoffice/4)",
+        )
+    lo_install.add_argument(
+        "--venv",
+        default=None,
+        help="virtual environment made with LibreOffice's Python that has errdist "
+        "(default: this one)",
+    )
+    lo.set_defaults(func=_dispatch("errdist.libreoffice.commands", "run"))
 
     vba = sub.add_parser("vba", help="write the VBA module (.bas) for manual import")
     vba.add_argument("--out", default=None, help="file to write (default: standard output)")
@@ -126,10 +213,29 @@ def main(argv: Sequence[str] | None = None) -> int:
     if not getattr(args, "command", None):
         parser.print_help()
         return 2
+    if args.command in WORKBOOK_COMMANDS:
+        missing = missing_headless_package()
+        if missing is not None:
+            print(
+                f"errdist {args.command}: needs the 'headless' extra ({missing} is not "
+                f"installed): {HEADLESS_HINT}",
+                file=sys.stderr,
+            )
+            return 2
     try:
         return args.func(args)
     except (ValueError, OSError) as exc:
         print(f"errdist {args.command}: {exc}", file=sys.stderr)
+        return 2
+    except ImportError as exc:
+        missing = _missing_headless(exc)
+        if missing is None:
+            raise
+        print(
+            f"errdist {args.command}: needs the 'headless' extra ({missing} is not installed): "
+            f"{HEADLESS_HINT}",
+            file=sys.stderr,
+        )
         return 2
     except KeyboardInterrupt:
         print("errdist: interrupted; nothing written", file=sys.stderr)

@@ -163,26 +163,53 @@ def _read_csv(path: Path) -> _Table:
     return _Table(header, rows, decimal_comma=delimiter == ";")
 
 
-def _read_xlsx(path: Path) -> _Table:
-    safety.inspect_xlsx(path)
-    safety.defuse_xml()
+def _first_sheet_rows_calamine(path: Path) -> list[list[Any]] | None:
+    """The first sheet's rows from row 1 with python-calamine (8-12x faster than openpyxl
+    on price files), or None when it is not installed. Dates come as ``datetime.date``,
+    blanks as ``""``."""
+    try:
+        from python_calamine import CalamineWorkbook
+    except ImportError:
+        return None
+    try:
+        book = CalamineWorkbook.from_path(str(path))
+        try:
+            return book.get_sheet_by_index(0).to_python(skip_empty_area=False)
+        finally:
+            book.close()
+    except Exception:  # noqa: BLE001 - a file calamine cannot read: openpyxl says why
+        return None
+
+
+def _first_sheet_rows_openpyxl(path: Path) -> list[list[Any]]:
     from openpyxl import load_workbook
 
     book = load_workbook(path, read_only=True, data_only=True)
     try:
-        ws = book.worksheets[0]
-        header: list[str] | None = None
-        rows: list[tuple[int, list[Any]]] = []
-        for r, values in enumerate(ws.iter_rows(values_only=True), start=1):
-            cells = list(values)
-            if all(_blank(c) for c in cells):
-                continue
-            if header is None:
-                header = ["" if c is None else str(c).strip() for c in cells]
-                continue
-            rows.append((r, cells))
+        return [list(values) for values in book.worksheets[0].iter_rows(values_only=True)]
     finally:
         book.close()
+
+
+#: Read .xlsx prices with python-calamine when it is installed (False: always openpyxl).
+USE_CALAMINE = True
+
+
+def _read_xlsx(path: Path) -> _Table:
+    safety.inspect_xlsx(path)
+    safety.defuse_xml()
+    sheet = _first_sheet_rows_calamine(path) if USE_CALAMINE else None
+    if sheet is None:
+        sheet = _first_sheet_rows_openpyxl(path)
+    header: list[str] | None = None
+    rows: list[tuple[int, list[Any]]] = []
+    for r, cells in enumerate(sheet, start=1):
+        if all(_blank(c) for c in cells):
+            continue
+        if header is None:
+            header = ["" if c is None else str(c).strip() for c in cells]
+            continue
+        rows.append((r, cells))
     if header is None:
         raise InputTypeError(f"{path}: the first sheet is empty")
     return _Table(header, rows)

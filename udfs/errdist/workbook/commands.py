@@ -1,4 +1,5 @@
-"""The unattended commands: ``errdist demo``, ``errdist refresh`` and ``errdist check``.
+"""The unattended commands: ``errdist demo``, ``errdist refresh``, ``errdist check`` and
+``errdist freeze``.
 
 ``errdist.cli`` parses the arguments and calls :func:`run_demo`, :func:`run_refresh` and
 :func:`run_check`; each returns the exit code. Bad input raises ``ValueError``/``OSError``
@@ -228,12 +229,36 @@ def run_demo(args: argparse.Namespace) -> int:
     force = bool(getattr(args, "force", False))
     _require_xlsx(out)
     check_target(out, force=force)
+    copy = _values_copy_target(args, out, force)
     progress = _Progress()
     with progress.step("simulating prices"):
         prices = simulate_prices()
     result = _build(prices, out, fund_name=FUND_NAME, as_of=None, force=force, progress=progress)
     print(format_summary(result.summary, out, time.perf_counter() - t0))
+    _write_values_copy(out, copy, force)
     return 0
+
+
+def _values_copy_target(args: argparse.Namespace, out: Path, force: bool) -> Path | None:
+    """``--values-copy FILE``, checked before anything is built (None when not asked)."""
+    name = getattr(args, "values_copy", None)
+    if not name:
+        return None
+    copy = Path(name)
+    _require_xlsx(copy)
+    if copy.resolve() == out.resolve():
+        raise ValueError(f"--values-copy {copy} is the live workbook itself; choose another name")
+    check_target(copy, force=force)
+    return copy
+
+
+def _write_values_copy(out: Path, copy: Path | None, force: bool) -> None:
+    if copy is None:
+        return
+    from errdist.workbook.freeze import freeze_workbook
+
+    freeze_workbook(out, copy, force=force)
+    print(f"values copy (no formulas, for readers without the add-in): {copy}")
 
 
 def _require_xlsx(out: Path) -> None:
@@ -259,6 +284,7 @@ def run_refresh(args: argparse.Namespace) -> int:
     if src.exists() and out.exists() and src.resolve() == out.resolve():
         raise ValueError(f"--out {out} is the prices file itself; choose another name")
     check_target(out, force=force)
+    copy = _values_copy_target(args, out, force)
     progress = _Progress()
     as_of = getattr(args, "as_of", None)
     with progress.step("reading prices"):
@@ -289,25 +315,69 @@ def run_refresh(args: argparse.Namespace) -> int:
             f"{prices.attrs.get('price_column')!r})"
         )
     print(format_summary(result.summary, out, time.perf_counter() - t0))
+    _write_values_copy(out, copy, force)
     return 0
 
 
-def run_check(args: argparse.Namespace) -> int:
-    """``errdist check BOOK``: recompute every formula and compare with the stored values.
+EXIT_VALUES = 1
+"""``errdist check`` exit code bit: a formula cell's stored value differs from the
+recomputation (or cannot be recomputed)."""
+EXIT_FORMULAS = 4
+"""``errdist check`` exit code bit: formulas of the template overridden by constants, deleted,
+changed or added. Both problems give ``EXIT_VALUES | EXIT_FORMULAS`` (5); bad input gives 2."""
 
-    Prints each mismatch (sheet!cell, formula, stored and recomputed values, relative
-    difference) or ``all N formula cells match``. Returns 1 when any cell differs or cannot
-    be recomputed, 0 otherwise.
+
+def _print_changes(changes: list[Any]) -> None:
+    from errdist.workbook.formula_map import KINDS
+
+    for kind in KINDS:
+        group = [c for c in changes if c.kind == kind]
+        if not group:
+            continue
+        print(f"{len(group):,} formula cell(s) {kind}:")
+        for c in group[:MAX_LISTED]:
+            print(f"  {c}")
+        if len(group) > MAX_LISTED:
+            print(f"  ... and {len(group) - MAX_LISTED} more")
+
+
+def run_check(args: argparse.Namespace) -> int:
+    """``errdist check BOOK [--engine formulas|libreoffice]``: recompute every formula, compare
+    with the stored values, and compare the formulas with the template's.
+
+    Prints the formulas overridden, deleted, changed or added (each kind in its own list),
+    then each value mismatch (sheet!cell, formula, stored and recomputed values, relative
+    difference) or ``all N formula cells match``. Exit code: 0 all is well;
+    :data:`EXIT_VALUES` (1) values differ; :data:`EXIT_FORMULAS` (4) formulas differ from the
+    template; 5 both.
     """
     from errdist.workbook.check import check_report
 
     tolerance = getattr(args, "tolerance", 1e-9)
+    engine = getattr(args, "engine", None) or "formulas"
     progress = _Progress()
-    with progress.step("recomputing workbook"):
-        report = check_report(args.book, tolerance)
+    step = "recomputing workbook" + (" in LibreOffice" if engine == "libreoffice" else "")
+    with progress.step(step):
+        report = check_report(args.book, tolerance, engine=engine, venv=getattr(args, "venv", None))
+    code = 0
+    if report.changes is None:
+        print(
+            "not built by errdist (no dated prices on a Prices sheet): formulas not compared "
+            "with the template"
+        )
+    elif report.changes:
+        _print_changes(report.changes)
+        code |= EXIT_FORMULAS
+    else:
+        print(
+            "every formula of the template is in place (none overridden, deleted, changed or added)"
+        )
     if not report.mismatches:
-        print(f"all {report.cells:,} formula cells match (relative tolerance {tolerance:g})")
-        return 0
+        print(
+            f"all {report.cells:,} formula cells match (relative tolerance {tolerance:g}; "
+            f"recomputed by {report.engine})"
+        )
+        return code
     for m in report.mismatches[:MAX_LISTED]:
         print(m)
     extra = len(report.mismatches) - MAX_LISTED
@@ -315,6 +385,22 @@ def run_check(args: argparse.Namespace) -> int:
         print(f"... and {extra} more")
     print(
         f"{len(report.mismatches):,} of {report.cells:,} formula cells differ or cannot be "
-        f"recomputed (relative tolerance {tolerance:g})"
+        f"recomputed (relative tolerance {tolerance:g}; recomputed by {report.engine})"
     )
-    return 1
+    return code | EXIT_VALUES
+
+
+def run_freeze(args: argparse.Namespace) -> int:
+    """``errdist freeze BOOK --out COPY``: a values copy (every formula replaced by its
+    stored value, formats and charts kept, a note on the Guide); never over an existing file
+    unless ``--force``."""
+    from errdist.workbook.freeze import freeze_workbook
+
+    out = Path(args.out)
+    _require_xlsx(out)
+    check_target(out, force=bool(getattr(args, "force", False)))
+    freeze_workbook(args.book, out, force=bool(getattr(args, "force", False)))
+    print(
+        f"wrote {out}: values only, from {args.book} (send this one to readers without the add-in)"
+    )
+    return 0
