@@ -1,7 +1,8 @@
 """The Forecasts sheet: rolling one-day VaR/ES forecasts of four models and their backtests.
 
-ERRDIST_FORECASTS gives, for each model, one row per return: VaR, ES and the forecast law
-(mean, std, shape, skew), using only the returns before the row. The models: the symmetric
+ERRDIST_FORECASTS gives, for each model, one row per return of the last ``fit_window`` + 250
+days: VaR, ES and the forecast law (mean, std, shape, skew), using only the returns before the
+row (the first ``fit_window`` rows are the estimation window of the first forecast, blank). The models: the symmetric
 error law and the skewed error law fitted to the last ``window`` returns (unconditional), EWMA
 and GJR-GARCH(1,1) with the skewed law (conditional; parameters re-estimated every ``refit``
 days on the last ``fit_window`` returns, volatility updated daily). Over the last 250 days each
@@ -90,7 +91,10 @@ def layout(plan: Plan, ctx: Context) -> None:
         sp.number(f"J{4 + i}", value, fmt)
     conf, win, fwin, refit = "$J$4", "$J$5", "$J$6", "$J$7"
     first, last = TOP, TOP + n - 1
-    ret = f"$B${first}:$B${last}"
+    # The forecasts are needed for the backtest window only: each model reads the last
+    # fit_window + 250 returns, so its cost does not grow with the length of the history.
+    f0 = max(first, last - ZONE_DAYS - fit_window(n) + 1)
+    ret = f"$B${f0}:$B${last}"
     sp.text(f"A{TOP - 1}", "Date", "head_r")
     sp.text(f"B{TOP - 1}", "Return", "head_r")
     sp.spill(f"A{first}", n, 1, f"=Returns!A2:A{n + 1}", "date")
@@ -116,12 +120,12 @@ def layout(plan: Plan, ctx: Context) -> None:
         for j, h in enumerate(_COLS):
             sp.text(cell(TOP - 2, c0 + j), h, "head_r")
         sp.spill(
-            cell(first - 1, c0),
-            n,
+            cell(f0 - 1, c0),
+            last - f0 + 1,
             6,
             f'=ERRDIST_FORECASTS({ret},"{model}",{conf},{win},{fwin},{refit})',
             "pct3",
-            cell_fmts=[list(_COL_FMTS)] * n,
+            cell_fmts=[list(_COL_FMTS)] * (last - f0 + 1),
         )
         var_z = f"{cell(z0 - 1, c0)}:{cell(last - 1, c0)}"
         law_z = f"{cell(z0 - 1, c0)}:{cell(last - 1, c0 + 5)}"
