@@ -5,9 +5,9 @@ Sub-commands dispatch to the modules that own the work:
 - ``errdist demo``     the demo month (``errdist.workbook.commands.run_demo``)
 - ``errdist refresh``  the unattended monthly job (``errdist.workbook.commands.run_refresh``)
 - ``errdist check``    audit a workbook (``errdist.workbook.commands.run_check``)
+- ``errdist freeze``   a values copy for recipients (``errdist.workbook.commands.run_freeze``)
 - ``errdist backtest`` backtest VaR/ES models over a price history
   (``errdist.backtest_command.run_backtest``)
-- ``errdist freeze``   a values copy for recipients (``errdist.workbook.commands.run_freeze``)
 - ``errdist vba``      write the VBA module for manual import (``errdist.sheet.vba.main``)
 - ``errdist libreoffice install|uninstall``  live functions in LibreOffice Calc
   (``errdist.libreoffice.commands.run``)
@@ -165,10 +165,6 @@ def build_parser() -> argparse.ArgumentParser:
     )
     check.set_defaults(func=_dispatch("errdist.workbook.commands", "run_check"))
 
-    from errdist.backtest_command import add_parser as add_backtest
-
-    add_backtest(sub)
-
     freeze = sub.add_parser(
         "freeze", help="write a values copy of a workbook (no formulas) for recipients"
     )
@@ -196,6 +192,9 @@ def build_parser() -> argparse.ArgumentParser:
         "(default: this one)",
     )
     lo.set_defaults(func=_dispatch("errdist.libreoffice.commands", "run"))
+    from errdist.backtest_command import add_parser as add_backtest
+
+    add_backtest(sub)
 
     vba = sub.add_parser("vba", help="write the VBA module (.bas) for manual import")
     vba.add_argument("--out", default=None, help="file to write (default: standard output)")
