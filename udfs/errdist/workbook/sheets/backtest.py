@@ -143,7 +143,7 @@ COMPARISON: tuple[tuple[str, str, str], ...] = (
     ("Kupiec p-value (right rate)", "p-value POF", "pval"),
     ("Christoffersen p-value (independence)", "p-value IND", "pval"),
     ("Conditional coverage p-value", "p-value CC", "pval"),
-    ("Zone (Basel 1996)", "zone", "gen"),
+    ("Zone (Basel 1996)", "zone", "text_r"),
     ("ES backtest Z2 (0 = right)", "es Z2 statistic", "num4"),
     ("ES backtest p-value", "es p-value", "pval"),
     ("VaR for tomorrow", "var_today", "pct3"),
@@ -201,7 +201,7 @@ def _comparison(sp: SheetPlan, ctx: Context) -> str:
             f'=IF({kup}>{PASS_LEVEL},IF({ind}>{PASS_LEVEL},IF({zone}="green",'
             f'IF({esp}>{PASS_LEVEL},"passes","fails ES test"),"not green"),'
             '"exceptions cluster"),"wrong exception rate")',
-            "key_text",
+            "key_text_r",
         )
         ctx.keys[f"cmp_{model}_verdict"] = absref(NAME, f"{col}{rr}")
         assert verdict_ref(ctx, model) == ctx.keys[f"cmp_{model}_verdict"]
