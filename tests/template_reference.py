@@ -398,6 +398,152 @@ CORE["ERRDIST_SOLVE_SHAPE"] = _scalar(_solve_shape)
 CORE["ERRDIST_SOLVE_SCALE"] = _scalar(_solve_scale)
 
 
+# --- the skewed law, conditional models, rolling forecasts and the ES backtest. Each cell is
+# recomputed by the core functions directly (errdist.law.skewed, errdist.risk.conditional,
+# errdist.risk.forecasts, errdist.checks.es_backtest) from the cached inputs, never through
+# the catalog; the outside references of these functions (scipy, arch, mpmath, published
+# recursions) are in tests/test_sheet_conditional.py and the core's own tests.
+
+
+def _core_skew_fit(book: Book, f: Formula, args: list[Any]) -> list[list[Any]]:
+    from errdist.law.skewed import fit_skewed
+
+    res = fit_skewed(numeric(args[0]).ravel())
+    head = ["loc", "scale", "shape", "skew", "n", "loglik", "aic", "at_bound", "warning"]
+    row = [res.loc, res.scale, res.shape, res.skew, float(res.n), res.loglik, res.aic]
+    row += [bool(res.at_bound), res.warning or "none"]
+    return ([head] if _opt(args, 1, False) else []) + [row]
+
+
+def _core_skew_risk(which: str) -> Callable[[Book, Formula, list[Any]], list[list[Any]]]:
+    def run(book: Book, f: Formula, args: list[Any]) -> list[list[Any]]:
+        from errdist.law import skewed
+
+        fn = skewed.value_at_risk if which == "var" else skewed.expected_shortfall
+        c, m, a, b, lam = (float(v) for v in args[:5])
+        return [[fn(c, m, a, b, lam, float(_opt(args, 5, 1.0)), _opt(args, 6, None))]]
+
+    return run
+
+
+def _core_skew_cdf(book: Book, f: Formula, args: list[Any]) -> list[list[Any]]:
+    from errdist.law import skewed
+
+    x = numeric(args[0]) if isinstance(args[0], np.ndarray) else np.array([[float(args[0])]])
+    fn = skewed.sf if _opt(args, 5, False) else skewed.cdf
+    return np.asarray(fn(x, *(float(v) for v in args[1:5]))).tolist()
+
+
+def _cond_fit(r: np.ndarray, model: str, c: float, decay: float) -> Any:
+    from errdist.risk.conditional import fit_ewma, fit_gjr
+
+    x = r[~np.isnan(r)]
+    if model == "ewma":
+        return fit_ewma(x, c, lam=decay)
+    return fit_gjr(x, c, asymmetric=model == "gjr")
+
+
+def _core_cond(which: str) -> Callable[[Book, Formula, list[Any]], list[list[Any]]]:
+    def run(book: Book, f: Formula, args: list[Any]) -> list[list[Any]]:
+        res = _cond_fit(
+            numeric(args[0]).ravel(),
+            str(_opt(args, 2, "gjr")),
+            float(args[1]),
+            float(_opt(args, 3, 0.94)),
+        )
+        return [[res.value_at_risk if which == "var" else res.expected_shortfall]]
+
+    return run
+
+
+def _core_cond_params(book: Book, f: Formula, args: list[Any]) -> list[list[Any]]:
+    c = float(_opt(args, 2, 0.99))
+    res = _cond_fit(
+        numeric(args[0]).ravel(), str(_opt(args, 1, "gjr")), c, float(_opt(args, 3, 0.94))
+    )
+    rows: list[list[Any]] = [["item", "value", "std_error"]] if _opt(args, 4, False) else []
+    rows += [
+        ["model", res.model, None],
+        ["n", float(res.n), None],
+        ["blanks skipped", float(res.n_dropped), None],
+        ["confidence", c, None],
+        ["volatility tomorrow", res.volatility, None],
+        ["mean tomorrow", res.mean, None],
+        ["VaR 1 day", res.value_at_risk, None],
+        ["ES 1 day", res.expected_shortfall, None],
+        ["log-likelihood", res.loglik, None],
+    ]
+    for name, v, se in zip(res.param_names, res.params, res.std_errors, strict=True):
+        rows.append([name, v, se if np.isfinite(se) else "set by the user"])
+    rows += [["at_bound", bool(res.at_bound), None], ["warning", res.warning or "none", None]]
+    return rows
+
+
+def _core_forecasts(book: Book, f: Formula, args: list[Any]) -> list[list[Any]]:
+    from errdist.risk.forecasts import rolling_forecasts
+
+    r = numeric(args[0]).ravel()
+    p = rolling_forecasts(
+        r,
+        str(args[1]),
+        float(args[2]),
+        window=int(_opt(args, 3, 250)),
+        fit_window=int(_opt(args, 4, 1000)),
+        refit=int(_opt(args, 5, 21)),
+        lam=float(_opt(args, 6, 0.94)),
+    )
+    cols = np.column_stack([p.var, p.es, p.mean, p.std, p.shape, p.skew])
+    return [[None if np.isnan(v) else float(v) for v in row] for row in cols]
+
+
+def _core_es_backtest(book: Book, f: Formula, args: list[Any]) -> list[list[Any]]:
+    from errdist.checks.es_backtest import es_backtest
+
+    x = numeric(args[0]).ravel()
+    fc = numeric(args[1])
+    keep = ~np.isnan(x) & ~np.isnan(fc).any(axis=1)
+    dropped = float(x.size - keep.sum())
+    x, fc = x[keep], fc[keep]
+    law = (fc[:, 2], fc[:, 3], fc[:, 4], fc[:, 5]) if fc.shape[1] == 6 else None
+    c = float(args[2])
+    res = es_backtest(
+        x,
+        fc[:, 0],
+        fc[:, 1],
+        c,
+        law=law,
+        simulations=int(_opt(args, 3, 1000)),
+        seed=int(_opt(args, 4, 20140101)),
+    )
+    rows: list[list[Any]] = [["measure", "value"]] if _opt(args, 5, False) else []
+    return rows + [
+        ["Z2 statistic", res.statistic],
+        ["p-value", res.pvalue],
+        ["days", float(res.n)],
+        ["exceptions", float(res.exceptions)],
+        ["expected exceptions", res.n * (1 - c)],
+        ["simulations", float(res.simulations)],
+        ["Z2 below -0.70", bool(res.reject_5)],
+        ["pairs dropped", dropped],
+        ["note", res.warning or "none"],
+    ]
+
+
+CORE.update(
+    {
+        "ERRDIST_SKEW_FIT": _core_skew_fit,
+        "ERRDIST_SKEW_VAR": _core_skew_risk("var"),
+        "ERRDIST_SKEW_ES": _core_skew_risk("es"),
+        "ERRDIST_SKEW_CDF": _core_skew_cdf,
+        "ERRDIST_COND_VAR": _core_cond("var"),
+        "ERRDIST_COND_ES": _core_cond("es"),
+        "ERRDIST_COND_PARAMS": _core_cond_params,
+        "ERRDIST_FORECASTS": _core_forecasts,
+        "ERRDIST_ES_BACKTEST": _core_es_backtest,
+    }
+)
+
+
 def register_core(name: str, fn: Callable[[Book, Formula, list[Any]], list[list[Any]]]) -> None:
     """Add a core recomputation (used for functions that land later)."""
     CORE[name] = fn
@@ -454,6 +600,7 @@ BUILTINS: dict[str, Callable[..., Any]] = {
     "LN": np.log,
     "SQRT": np.sqrt,
     "ABS": np.abs,
+    "ERFC": special.erfc,
     "IF": _if,
     "NA": lambda: np.nan,
     "ISBLANK": lambda v: v is None,

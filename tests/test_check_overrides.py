@@ -42,24 +42,24 @@ def test_the_committed_template_has_every_formula_in_place() -> None:
 
 
 def test_overridden_deleted_changed_and_added_are_listed_apart(tmp_path: Path) -> None:
-    b17 = r'<c r="B17"( s="\d+")?><f>([^<]*)</f><v>([^<]*)</v></c>'
-    over = _edit(tmp_path / "over.xlsx", "Risk", b17, r'<c r="B17"\1><v>\3</v></c>')
+    b17 = r'<c r="B31"( s="\d+")?><f>([^<]*)</f><v>([^<]*)</v></c>'
+    over = _edit(tmp_path / "over.xlsx", "Risk", b17, r'<c r="B31"\1><v>\3</v></c>')
     (c,) = formula_changes(over)
-    assert (c.kind, c.sheet, c.cell) == ("overridden", "Risk", "B17")
+    assert (c.kind, c.sheet, c.cell) == ("overridden", "Risk", "B31")
     assert c.expected.startswith("ERRDIST_VAR(") and isinstance(c.found, float)
 
     gone = _edit(tmp_path / "gone.xlsx", "Risk", b17, "")
     (c,) = formula_changes(gone)
-    assert (c.kind, c.cell, c.found) == ("deleted", "B17", None)
+    assert (c.kind, c.cell, c.found) == ("deleted", "B31", None)
 
     changed = _edit(
         tmp_path / "changed.xlsx",
         "Risk",
-        r"<f>ERRDIST_ES\(\$A\$17,\$B\$5,\$B\$6,\$B\$7,1,",
-        "<f>ERRDIST_ES($A$17,$B$5,$B$6,$B$7,2,",
+        r"<f>ERRDIST_ES\(\$A\$31,\$B\$5,\$B\$6,\$B\$7,1,",
+        "<f>ERRDIST_ES($A$31,$B$5,$B$6,$B$7,2,",
     )
     (c,) = formula_changes(changed)
-    assert (c.kind, c.cell) == ("changed", "C17") and ",2," in c.found
+    assert (c.kind, c.cell) == ("changed", "C31") and ",2," in c.found
 
     # Prices!D1 holds a note (text); a formula typed there is "added".
     added = _edit(
@@ -78,11 +78,11 @@ def test_check_exit_code_says_formulas_overridden_while_values_agree(
     from errdist.cli import main
     from errdist.workbook.commands import EXIT_FORMULAS
 
-    b17 = r'<c r="B17"( s="\d+")?><f>([^<]*)</f><v>([^<]*)</v></c>'
-    over = _edit(tmp_path / "over.xlsx", "Risk", b17, r'<c r="B17"\1><v>\3</v></c>')
+    b17 = r'<c r="B31"( s="\d+")?><f>([^<]*)</f><v>([^<]*)</v></c>'
+    over = _edit(tmp_path / "over.xlsx", "Risk", b17, r'<c r="B31"\1><v>\3</v></c>')
     assert main(["check", str(over)]) == EXIT_FORMULAS == 4
     out = capsys.readouterr().out
-    assert "1 formula cell(s) overridden:" in out and "Risk!B17" in out
+    assert "1 formula cell(s) overridden:" in out and "Risk!B31" in out
     assert "formula cells match" in out  # the values alone would have passed
 
 

@@ -217,12 +217,12 @@ def test_check_engine_libreoffice_passes_the_demo_and_catches_a_changed_value(
     assert main(args) == 0
     out = capsys.readouterr().out
     assert re.search(r"all [\d,]{5,} formula cells match", out) and "LibreOffice" in out
-    # A stored value edited in the XML (the cached ES of Risk!C17) must be caught.
+    # A stored value edited in the XML (the cached ES of Risk!C31) must be caught.
     edited = tmp_path / "edited.xlsx"
-    _edit_cached(demo_book, edited, "Risk", "C17", "0.05")
+    _edit_cached(demo_book, edited, "Risk", "C31", "0.05")
     args[1] = str(edited)
     assert main(args) == 1
-    assert "Risk!C17" in capsys.readouterr().out
+    assert "Risk!C31" in capsys.readouterr().out
 
 
 def _sheet_part(book: Path, sheet: str) -> str:

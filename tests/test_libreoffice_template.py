@@ -40,7 +40,7 @@ pytestmark = pytest.mark.libreoffice
 ROOT = Path(__file__).resolve().parents[1]
 TEMPLATE = ROOT / "workbook_template" / "errdist-monthly-risk.xlsx"
 ARTIFACTS = ROOT / "test-artifacts" / "libreoffice"
-CHART_PAGES = 4
+CHART_PAGES = 5
 
 
 def _a1(r: int, c: int) -> str:
@@ -172,7 +172,7 @@ def _read_ppm(path: Path) -> np.ndarray:
 
 
 def test_chart_pages_are_drawn(lo_run) -> None:
-    """The four chart pages exist, are not blank, and show the red fitted/VaR lines."""
+    """The five chart pages exist, are not blank, and show the red fitted/VaR lines."""
     for tool in ("pdftoppm", "pdftotext", "pdfinfo"):
         if shutil.which(tool) is None:
             pytest.skip(f"{tool} (poppler-utils) is not installed")

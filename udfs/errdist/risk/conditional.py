@@ -468,7 +468,7 @@ def fit_gjr(
         param_names=tuple(out_names),
         params=tuple(out_p),
         std_errors=tuple(out_se),
-        loglik=float(res.loglikelihood - r.size * math.log(s)),
+        loglik=float(res.loglikelihood + r.size * math.log(s)),
         at_bound=at_bound,
         warning=warning,
     )

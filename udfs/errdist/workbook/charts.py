@@ -4,7 +4,9 @@
 2. histogram vs fitted density (FREQUENCY counts as densities, ERRDIST_PDF and the normal
    density at the bin midpoints);
 3. QQ plot: fitted quantiles against the sorted returns, with the 45° line;
-4. returns against the rolling VaR, exceptions marked as red columns (Backtest sheet).
+4. the loss tail on a log scale: probability of a loss of at least x, empirical, fitted
+   error law, fitted skewed law and normal (the tail is where VaR lives);
+5. returns against the rolling VaR, exceptions marked as red columns (Backtest sheet).
 
 Charts are XlsxWriter chart specifications (:class:`~errdist.workbook.layout.ChartSpec`); their
 data caches come from the cached values the writer puts in the source cells.
@@ -212,6 +214,62 @@ def _returns_var(keys: Mapping[str, str], backtest: str) -> ChartSpec | None:
     )
 
 
+def _tail(keys: Mapping[str, str], fitcheck: str) -> ChartSpec | None:
+    if "tail_first" not in keys:
+        return None
+    a, b = keys["tail_first"], keys["tail_last"]
+    x = "=" + absref(fitcheck, f"T{a}", f"T{b}")
+    series: list[dict[str, object]] = [
+        {
+            "name": "Empirical (plotting positions)",
+            "categories": x,
+            "values": "=" + absref(fitcheck, f"U{a}", f"U{b}"),
+            "marker": {
+                "type": "circle",
+                "size": 4,
+                "border": {"color": "#2F5597"},
+                "fill": {"color": "#9DC3E6"},
+            },
+            "line": {"none": True},
+        },
+        {
+            "name": "Fitted error distribution",
+            "categories": x,
+            "values": "=" + absref(fitcheck, f"V{a}", f"V{b}"),
+            "marker": {"type": "none"},
+            "line": {"color": "#C00000", "width": 2},
+        },
+    ]
+    if "tail_skewed" in keys:
+        series.append(
+            {
+                "name": "Fitted skewed error law",
+                "categories": x,
+                "values": "=" + absref(fitcheck, f"W{a}", f"W{b}"),
+                "marker": {"type": "none"},
+                "line": {"color": "#ED7D31", "width": 1.75, "dash_type": "long_dash"},
+            }
+        )
+    series.append(
+        {
+            "name": "Normal, same mean and sd",
+            "categories": x,
+            "values": "=" + absref(fitcheck, f"X{a}", f"X{b}"),
+            "marker": {"type": "none"},
+            "line": {"color": "#404040", "width": 1.25, "dash_type": "dash"},
+        }
+    )
+    return ChartSpec(
+        anchor="",
+        chart_type={"type": "scatter", "subtype": "straight"},
+        title="Loss tail: probability of a daily loss of at least x (log scale)",
+        series=series,
+        x_axis=_axis("Daily loss x (minus the log return)", "0.0%", crossing="min"),
+        y_axis=_axis("P(loss ≥ x)", "0.0E+0", log_base=10, crossing="min"),
+        size=CHART_SIZE,
+    )
+
+
 def add_charts(
     sp: SheetPlan, keys: Mapping[str, str], *, fitcheck: str, backtest: str, fund: str
 ) -> None:
@@ -224,6 +282,7 @@ def add_charts(
             _ecdf(keys, fitcheck),
             _histogram(keys, fitcheck),
             _qq(keys, fitcheck),
+            _tail(keys, fitcheck),
             _returns_var(keys, backtest),
         )
         if c is not None

@@ -106,6 +106,13 @@ def _build(
         )
 
 
+def _float(v: Any) -> float:
+    try:
+        return float(v)
+    except (TypeError, ValueError):
+        return math.nan
+
+
 def _num(v: Any, fmt: str) -> str:
     try:
         x = float(v)
@@ -115,7 +122,10 @@ def _num(v: Any, fmt: str) -> str:
 
 
 def format_summary(summary: Mapping[str, Any], path: Path, seconds: float) -> str:
-    """The summary printed after a build: fund, period, both fits, 99% VaR/ES, backtest."""
+    """The summary printed after a build: fund, period, both fits, the fit verdict, 99% VaR/ES
+    (fitted law and conditional model), and the backtest verdict in plain words."""
+    from errdist.workbook.summary import MODEL_NAMES, SHAPE_GAP_MARGIN
+
     lines = []
     n = summary.get("n_returns")
     n_text = f"{n:,} daily returns" if isinstance(n, int) else "daily returns"
@@ -130,10 +140,44 @@ def format_summary(summary: Mapping[str, Any], path: Path, seconds: float) -> st
             f"  {label:<9}{_num(fit.get('loc'), '12.6f')}{_num(fit.get('scale'), '12.6f')}"
             f"{_num(fit.get('shape'), '9.4f')}"
         )
+    p = _float(summary.get("gof_pvalue"))
+    if not math.isnan(p):
+        verdict = "rejected at 5%" if p < 0.05 else "not rejected at 5%"
+        lines.append(
+            f"  fit verdict: goodness of fit p = {p:.3f}, the fitted error law is {verdict}"
+            + (
+                f"; best law by AIC: {summary['best_law_aic']}"
+                if summary.get("best_law_aic")
+                else ""
+            )
+            + (f"; {summary['aic_winner']} has the lower AIC" if summary.get("aic_winner") else "")
+        )
+    gap = _float(summary.get("shape_gap"))
+    if not math.isnan(gap):
+        mom = (summary.get("moments") or {}).get("shape")
+        mle = (summary.get("mle") or {}).get("shape")
+        if summary.get("shape_gap_warning"):
+            lines.append(
+                f"  WARNING: the moments shape {_num(mom, '.3f')} and the MLE shape "
+                f"{_num(mle, '.3f')} differ by {gap:.0%}, more than the {SHAPE_GAP_MARGIN:.0%} "
+                "margin: the tail is not well pinned down; read the Fit check sheet"
+            )
+        else:
+            lines.append(
+                f"  shapes agree: moments {_num(mom, '.3f')} vs MLE {_num(mle, '.3f')} "
+                f"({gap:.0%} apart, margin {SHAPE_GAP_MARGIN:.0%})"
+            )
     lines.append(
         f"  1-day 99%: VaR {_num(summary.get('var99'), '.3%')}, "
         f"ES {_num(summary.get('es99'), '.3%')} (losses, fitted law)"
     )
+    if not math.isnan(_float(summary.get("cond_var99"))):
+        model = str(summary.get("cond_model") or "gjr")
+        lines.append(
+            f"  today, conditional {model}: VaR 99% {_num(summary.get('cond_var99'), '.3%')}, "
+            f"ES 99% {_num(summary.get('cond_es99'), '.3%')}, "
+            f"ES 97.5% {_num(summary.get('cond_es975'), '.3%')}"
+        )
     exc = summary.get("backtest_exceptions")
     zone = summary.get("backtest_zone") or "n/a"
     # The count and the zone are those of the last 250 days (the Basel window), not of the
@@ -141,6 +185,28 @@ def format_summary(summary: Mapping[str, Any], path: Path, seconds: float) -> st
     lines.append(
         f"  backtest, last 250 days: {_num(exc, '.0f')} exceptions of the 99% VaR, {zone} zone"
     )
+    models = summary.get("models") or {}
+    if models:
+        lines.append("  models over the last 250 days (99% VaR, ES backtest):")
+        for name, m in models.items():
+            lines.append(
+                f"    {MODEL_NAMES.get(name, name)}: {_num(m.get('exceptions'), '.0f')} "
+                f"exceptions ({_num(m.get('expected'), '.1f')} expected), "
+                f"{m.get('zone') or 'n/a'} zone; Kupiec p = {_num(m.get('kupiec_pvalue'), '.2f')}, "
+                f"Christoffersen p = {_num(m.get('independence_pvalue'), '.2f')}; "
+                f"ES Z2 = {_num(m.get('es_statistic'), '.2f')} "
+                f"(p = {_num(m.get('es_pvalue'), '.2f')}): {m.get('verdict') or 'n/a'}"
+            )
+        best = str(summary.get("best_model") or "")
+        if best in models:
+            m = models[best]
+            passed = m.get("verdict") == "passes"
+            lines.append(
+                f"  backtest verdict: the 99% VaR of the {MODEL_NAMES.get(best, best)} model had "
+                f"{_num(m.get('exceptions'), '.0f')} exceptions in the last 250 days: "
+                f"{m.get('zone') or 'n/a'} zone; Kupiec p = {_num(m.get('kupiec_pvalue'), '.2f')}"
+                + ("" if passed else "; no model passed every test")
+            )
     lines.append(f"wrote {path.resolve()} in {seconds:.1f} s")
     return "\n".join(lines)
 

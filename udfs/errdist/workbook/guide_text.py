@@ -41,7 +41,14 @@ SHEETS: list[tuple[str, str]] = [
     ),
     (
         "bullet",
-        "Risk — one-day and ten-day VaR and Expected Shortfall at 95%, 99% and 99.5%, "
+        "Models — the skewed error law (a wider loss side than gain side allowed) and two "
+        "conditional volatility models, GJR-GARCH and EWMA, with every parameter and its "
+        "standard error; the yellow cell picks the model of today's figures.",
+    ),
+    (
+        "bullet",
+        "Risk — today's one-day VaR and Expected Shortfall by model (symmetric law, skewed "
+        "law, conditional model) and one-day and ten-day figures at 95%, 97.5%, 99% and 99.5% "
         "for the fitted law and for the normal law with the same mean and standard deviation.",
     ),
     (
@@ -51,13 +58,19 @@ SHEETS: list[tuple[str, str]] = [
     ),
     (
         "bullet",
+        "Forecasts — rolling one-day VaR and ES of four models (error law, skewed law, "
+        "EWMA, GJR-GARCH), each day from the returns before it only, and each model's "
+        "backtests over the last 250 days.",
+    ),
+    (
+        "bullet",
         "Backtest — the rolling 250-day 99% VaR, its exceptions, the coverage tests "
-        "and the traffic-light zone.",
+        "and the traffic-light zone; and the four models side by side with a verdict each.",
     ),
     (
         "bullet",
         "Charts — empirical vs fitted distribution, histogram vs fitted density, "
-        "QQ plot, and returns against the rolling VaR.",
+        "QQ plot, the loss tail on a log scale, and returns against the rolling VaR.",
     ),
     (
         "bullet",
@@ -153,7 +166,9 @@ CAUTIONS: list[tuple[str, str]] = [
         "bullet",
         "A symmetric law: the error distribution is symmetric about its location. If "
         "the sample skewness on the Calibration sheet is far from zero, the loss tail may be "
-        "understated.",
+        "understated. The skewed error law (Models sheet) lets the loss side be wider; its skew "
+        "is estimated with much less precision than the scale and can change sign from one "
+        "window to the next.",
     ),
     (
         "bullet",
@@ -163,8 +178,17 @@ CAUTIONS: list[tuple[str, str]] = [
     ),
     (
         "bullet",
+        "Conditional figures (GJR-GARCH, EWMA) follow the volatility of the last days: one "
+        "large loss raises tomorrow's VaR at once, and a calm spell lowers it. They answer "
+        "'how risky is tomorrow', not 'how risky is a typical day'; read both. The models "
+        "assume one regime and i.i.d. innovations themselves.",
+    ),
+    (
+        "bullet",
         "Estimation error: the shape estimated from a few hundred returns is uncertain; "
-        "the moments fit is sensitive to single extreme returns.",
+        "the moments fit is sensitive to single extreme returns. The model parameters are "
+        "estimates too: see their standard errors on the Models sheet. A backtest that passes "
+        "over 250 days is weak evidence: at 99% only about 2.5 exceptions are expected.",
     ),
     (
         "bullet",

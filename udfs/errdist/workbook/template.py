@@ -13,7 +13,8 @@
 
 The sheets (see ``docs/template.md``) are one module each under
 :mod:`errdist.workbook.sheets`, listed in workbook order in :data:`SHEET_MODULES`: Guide,
-Prices, Returns, Calibration, Risk, Fit check, Backtest, Charts and ``xlwings.conf``. Adding a
+Prices, Returns, Calibration, Models, Risk, Fit check, Forecasts, Backtest, Charts and
+``xlwings.conf``. Adding a
 sheet is adding one module there and listing it here. Only built-in functions the headless
 engine supports are used (no SEQUENCE, LET, AGGREGATE or UNIQUE).
 
@@ -46,7 +47,9 @@ from errdist.workbook.sheets import (
     calibration,
     charts,
     fit_check,
+    forecasts,
     guide,
+    models,
     prices,
     returns,
     risk,
@@ -76,8 +79,10 @@ SHEET_MODULES: tuple[ModuleType, ...] = (
     prices,
     returns,
     calibration,
+    models,
     risk,
     fit_check,
+    forecasts,
     backtest,
     charts,
     xlwings_conf,

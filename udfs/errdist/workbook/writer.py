@@ -83,6 +83,10 @@ FORMATS: dict[str, dict[str, object]] = {
     "key": {"bold": True, "num_format": "0.000000", "bg_color": "#E2EFDA"},
     "key_pct": {"bold": True, "num_format": "0.00%", "bg_color": "#E2EFDA"},
     "key_text": {"bold": True, "bg_color": "#E2EFDA"},
+    "key_text_r": {"bold": True, "bg_color": "#E2EFDA", "align": "right"},
+    "text_r": {"align": "right"},
+    "key_int": {"bold": True, "num_format": "0", "bg_color": "#E2EFDA"},
+    "key_p": {"bold": True, "num_format": "0.000", "bg_color": "#E2EFDA"},
     "check": {"num_format": "0.0E+00", "font_color": "#375623"},
 }
 """Named cell formats used by the template (XlsxWriter format properties)."""

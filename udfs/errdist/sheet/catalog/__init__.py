@@ -18,8 +18,10 @@ ordered :data:`CATALOG`: :mod:`~errdist.sheet.catalog.law` (density, probabiliti
 draws, moments, solvers), :mod:`~errdist.sheet.catalog.estimate` (fits),
 :mod:`~errdist.sheet.catalog.data` (returns), :mod:`~errdist.sheet.catalog.about` (versions),
 :mod:`~errdist.sheet.catalog.risk` (VaR, ES), :mod:`~errdist.sheet.catalog.checks`
-(backtests, goodness of fit, rival laws, chart points) and :mod:`~errdist.sheet.catalog.panel`
-(many series: one row per column). Shared parameter descriptions and
+(backtests, goodness of fit, rival laws, chart points), :mod:`~errdist.sheet.catalog.skewed`
+(the skewed error law), :mod:`~errdist.sheet.catalog.conditional` (conditional volatility
+models, rolling forecasts, the ES backtest) and :mod:`~errdist.sheet.catalog.panel` (many
+series: one row per column). Shared parameter descriptions and
 examples are in :mod:`~errdist.sheet.catalog.shared`.
 
 Adding a worksheet function
@@ -60,7 +62,17 @@ from __future__ import annotations
 from types import ModuleType
 from typing import Any
 
-from errdist.sheet.catalog import about, checks, data, estimate, law, panel, risk
+from errdist.sheet.catalog import (
+    about,
+    checks,
+    conditional,
+    data,
+    estimate,
+    law,
+    panel,
+    risk,
+    skewed,
+)
 from errdist.sheet.cells import SheetError
 from errdist.sheet.entry import (
     CATEGORY,
@@ -93,7 +105,17 @@ __all__ = [
     "text",
 ]
 
-SUBJECTS: tuple[ModuleType, ...] = (law, estimate, data, about, risk, checks, panel)
+SUBJECTS: tuple[ModuleType, ...] = (
+    law,
+    estimate,
+    data,
+    about,
+    risk,
+    checks,
+    skewed,
+    conditional,
+    panel,
+)
 """The catalog modules, in the order of the function reference."""
 
 #: Name -> entry, in the order of the function reference.

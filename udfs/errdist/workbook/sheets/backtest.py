@@ -9,7 +9,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from errdist.workbook.layout import Plan, PrintSetup, absref, cell
+from errdist.workbook.layout import Plan, PrintSetup, SheetPlan, absref, cell
 from errdist.workbook.sheets.context import Context, call_entry
 from errdist.workbook.sheets.tables import heading, label_value_fmts
 
@@ -135,7 +135,90 @@ def layout(plan: Plan, ctx: Context) -> None:
                     if col == "K" and str(rr[0]).strip().lower() == "zone":
                         ctx.keys["bt_zone"] = absref(NAME, cell(e.row + i, e.col + 1))
         ctx.keys.setdefault("bt_zone", ctx.keys["bt_zone_builtin"])
-    sp.print_area = f"H4:L{max((e.row + e.rows for e in sp.entries if e.col >= 7), default=4)}"
+    right = _comparison(sp, ctx)
+    top_rows = max((e.row + e.rows for e in sp.entries if e.col >= 7), default=4)
+    sp.print_area = f"H4:{right}{top_rows}"
+
+
+COMPARISON: tuple[tuple[str, str, str], ...] = (
+    ("Forecast days", "observations", "int"),
+    ("Exceptions", "exceptions", "int"),
+    ("Expected exceptions", "expected exceptions", "num2"),
+    ("Kupiec p-value (right rate)", "p-value POF", "pval"),
+    ("Christoffersen p-value (independence)", "p-value IND", "pval"),
+    ("Conditional coverage p-value", "p-value CC", "pval"),
+    ("Zone (Basel 1996)", "zone", "text_r"),
+    ("ES backtest Z2 (0 = right)", "es Z2 statistic", "num4"),
+    ("ES backtest p-value", "es p-value", "pval"),
+    ("VaR for tomorrow", "var_today", "pct3"),
+    ("ES for tomorrow", "es_today", "pct3"),
+)
+"""Rows of the side-by-side comparison: label, key suffix (Forecasts sheet), format."""
+PASS_LEVEL = 0.05
+"""p-values above this pass (5%, common practice, no source)."""
+
+
+def verdict_ref(ctx: Context, model: str) -> str | None:
+    """Where the side-by-side table will put ``model``'s verdict ("passes"...), or None when
+    the table will be left out (the sheets before this one may point at it)."""
+    from errdist.workbook.sheets import forecasts
+
+    needed = ("ERRDIST_ROLLING_VAR", "ERRDIST_FORECASTS", "ERRDIST_BACKTEST", "ERRDIST_ES_BACKTEST")
+    if not ctx.has(*needed) or ctx.n < 2 * forecasts.ZONE_DAYS or ctx.n <= BACKTEST_WINDOW:
+        return None
+    names = [m for m, _ in forecasts.MODELS]
+    return absref(NAME, f"{'OPQR'[names.index(model)]}{6 + len(COMPARISON)}")
+
+
+def _comparison(sp: SheetPlan, ctx: Context) -> str:
+    """The models side by side over the last 250 days (from the Forecasts sheet); the last
+    column used."""
+    from errdist.workbook.sheets.forecasts import MODELS
+
+    if "cmp_gjr_zone" not in ctx.keys:
+        return "L"
+    sp.width("M", 3)
+    sp.width("N", 34)
+    sp.width("O", 13, "R")
+    sp.text("N4", "Models side by side, last 250 days (Forecasts sheet)", "h2")
+    for c in "OPQR":
+        sp.text(f"{c}4", "", "h2")
+    sp.text("N5", "Measure", "head")
+    heads = {"symmetric": "Error law", "skewed": "Skewed law", "ewma": "EWMA", "gjr": "GJR-GARCH"}
+    cols = "OPQR"
+    for col, (model, _) in zip(cols, MODELS, strict=True):
+        sp.text(f"{col}5", heads[model], "head_r")
+    for i, (label, suffix, fmt) in enumerate(COMPARISON):
+        rr = 6 + i
+        sp.text(f"N{rr}", label)
+        for col, (model, _) in zip(cols, MODELS, strict=True):
+            sp.formula(f"{col}{rr}", "=" + ctx.keys[f"cmp_{model}_{suffix}"], fmt)
+            ctx.keys[f"cmp_{model}_row_{suffix}"] = absref(NAME, f"{col}{rr}")
+    rr = 6 + len(COMPARISON)
+    sp.text(f"N{rr}", "Verdict", "label_b")
+    row_of = {suffix: 6 + i for i, (_, suffix, _) in enumerate(COMPARISON)}
+    for col, (model, _) in zip(cols, MODELS, strict=True):
+        kup, ind = f"{col}{row_of['p-value POF']}", f"{col}{row_of['p-value IND']}"
+        zone, esp = f"{col}{row_of['zone']}", f"{col}{row_of['es p-value']}"
+        sp.formula(
+            f"{col}{rr}",
+            f'=IF({kup}>{PASS_LEVEL},IF({ind}>{PASS_LEVEL},IF({zone}="green",'
+            f'IF({esp}>{PASS_LEVEL},"passes","fails ES test"),"not green"),'
+            '"exceptions cluster"),"wrong exception rate")',
+            "key_text_r",
+        )
+        ctx.keys[f"cmp_{model}_verdict"] = absref(NAME, f"{col}{rr}")
+        assert verdict_ref(ctx, model) == ctx.keys[f"cmp_{model}_verdict"]
+    notes = (
+        f"A model passes when its Kupiec, Christoffersen and ES-backtest p-values are above "
+        f"{PASS_LEVEL:g}",
+        "(5%, common practice, no source) and its zone is green. All four models forecast the",
+        "same days from the returns before each day. Passing is evidence, not proof: 250 days",
+        "hold only about 2.5 expected exceptions at 99%.",
+    )
+    for i, note in enumerate(notes):
+        sp.text(f"N{rr + 2 + i}", note, "note")
+    return "R"
 
 
 def _rolling_stub(ctx: Context) -> np.ndarray:

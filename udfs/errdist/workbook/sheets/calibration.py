@@ -117,6 +117,12 @@ def layout(plan: Plan, ctx: Context) -> None:
             "gen",
             cell_fmts=label_value_fmts(rows, FIT_REPORT_FMTS),
         )
+        for i, row in enumerate(rows):
+            if row[0] in ("MLE AIC", "MLE shape", "moments shape"):
+                key = {"MLE AIC": "mle_aic", "MLE shape": "report_mle_shape"}.get(
+                    str(row[0]), "report_mom_shape"
+                )
+                ctx.keys[key] = absref(NAME, f"J{5 + i}")
         notes_top = 5 + len(rows) + 2
 
     builtin_moments.layout_section(sp, ctx, top=15, notes_top=notes_top)

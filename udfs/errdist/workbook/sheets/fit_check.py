@@ -90,6 +90,10 @@ def layout(plan: Plan, ctx: Context) -> None:
             "gen",
             cell_fmts=label_value_fmts(rows, GOF_FMTS),
         )
+        for i, rr in enumerate(rows):
+            if rr[0] in ("p-value", "value"):
+                key = "gof_pvalue" if rr[0] == "p-value" else "gof_statistic"
+                ctx.keys[key] = absref(NAME, f"B{row + 2 + i}")
         sp.text(
             f"D{row + 2}",
             "Anderson-Darling statistic A²; its p-value comes from "
@@ -125,6 +129,7 @@ def layout(plan: Plan, ctx: Context) -> None:
             head_rows=1,
             cell_fmts=column_fmts(rows, COMPARE_FMTS),
         )
+        ctx.keys["compare_best"] = absref(NAME, f"A{row + 2}")
         row += len(rows) + 2
     # Histogram against the fitted density.
     row = _histogram(sp, ctx, row, loc, scale, shape)
@@ -157,7 +162,53 @@ def layout(plan: Plan, ctx: Context) -> None:
         sp.width("Q", 12)
         sp.width("R", 12)
         ctx.keys["qq_line"] = absref(NAME, "R5", "R6")
+        _loss_tail(sp, ctx, e.row + 2)
     sp.print_area = f"A1:J{row}"
+
+
+TAIL_FRACTION = 0.1
+"""Share of the returns (the worst ones) in the loss-tail table."""
+
+
+def _loss_tail(sp: SheetPlan, ctx: Context, first: int) -> None:
+    """The loss tail from the ERRDIST_EMPIRICAL rows starting at ``first``: loss x and the
+    probability of a loss of at least x, empirical, fitted, skewed law and normal."""
+    k = max(10, int(ctx.n * TAIL_FRACTION))
+    a, b = first, first + k - 1
+    loc, scale, shape = (ctx.keys[f"fit_mle_{p}"] for p in ("loc", "scale", "shape"))
+    sp.text("T4", f"Loss tail: the worst {k} returns", "h2")
+    for c in "UVWX":
+        sp.text(f"{c}4", "", "h2")
+    heads = ("Loss x", "Empirical P(loss ≥ x)", "Fitted error law", "Skewed law", "Normal")
+    for j, h in enumerate(heads):
+        sp.text(cell(4, 19 + j), h, "head_r1")
+    sp.width("T", 11)
+    sp.width("U", 12, "X")
+    top = 6
+    last = top + k - 1
+    sp.spill(f"T{top}", k, 1, f"=-L{a}:L{b}", "pct3")
+    sp.spill(f"U{top}", k, 1, f"=M{a}:M{b}", "sci")
+    sp.spill(f"V{top}", k, 1, f"=N{a}:N{b}", "sci")
+    if "skew_loc" in ctx.keys and ctx.has("ERRDIST_SKEW_CDF"):
+        sk = ",".join(ctx.keys[f"skew_{p}"] for p in ("loc", "scale", "shape", "skew"))
+        sp.spill(f"W{top}", k, 1, f"=ERRDIST_SKEW_CDF(L{a}:L{b},{sk})", "sci")
+        ctx.keys["tail_skewed"] = "W"
+    # The normal lower tail as erfc(-z/sqrt 2)/2: NORM.DIST(..., TRUE) is 1/2 (1 + erf(...)) in
+    # some engines, which loses digits far in the lower tail.
+    for i in range(k):
+        sp.formula(
+            f"X{top + i}",
+            f"=ERFC(({ctx.keys['mean']}-L{a + i})/({ctx.keys['sd']}*SQRT(2)))/2",
+            "sci",
+        )
+    sp.text(
+        "T3",
+        "P(loss ≥ x) = P(return ≤ −x): plotting position, fitted CDFs and the normal CDF at "
+        "the sorted returns — the Charts sheet plots them on a log scale.",
+        "note",
+    )
+    ctx.keys["tail_first"] = str(top)
+    ctx.keys["tail_last"] = str(last)
 
 
 def _histogram(sp: SheetPlan, ctx: Context, row: int, loc: str, scale: str, shape: str) -> int:
