@@ -423,32 +423,119 @@ def logsf(
 # --------------------------------------------------------------------------------------------
 # quantiles
 # --------------------------------------------------------------------------------------------
+#: Below this z = |t|^b the quantile is refined by the series fixed point (see _small_quantile).
+_Z_FIXED_POINT = 1e-3
+_FIXED_POINT_STEPS = 6
+
+
+def _small_quantile_scalar(target: float, c: float) -> float:
+    """Scalar :func:`_small_quantile`."""
+    if target == 0.0:
+        return 0.0
+    if c < 100.0:
+        t0 = target * math.gamma(c + 1.0)
+    else:  # t = z**c < 1e-300: the quantile is 0 to double precision
+        t0 = math.exp(min(math.log(target) + math.lgamma(c + 1.0), 0.0) - 1000.0 * c)
+    t = t0
+    b = 1.0 / c
+    for _ in range(_FIXED_POINT_STEPS):
+        z = t**b
+        s = 1.0
+        for j in range(6, 0, -1):
+            s = 1.0 + z / (c + j) * s
+        t = t0 * math.exp(z) / s
+    return t
+
+
+def _small_quantile(target: NDArray[np.float64], c: NDArray[np.float64]) -> NDArray[np.float64]:
+    r"""``t >= 0`` with :math:`P(c, t^{1/c}) = ` ``target`` where :math:`z = t^{1/c} < 10^{-3}`.
+
+    ``gammaincinv`` returns :math:`z`, which underflows (or loses digits as a subnormal) when the
+    quantile is very close to the centre or the shape is huge; :math:`t = z^c` itself is a normal
+    number. From the series :math:`P(c, z) = z^c e^{-z} S(z) / \Gamma(c+1)`,
+    :math:`S(z) = \sum_k z^k / ((c+1)\cdots(c+k))` (Abramowitz & Stegun 6.5.29),
+
+    .. math::
+
+        t = P\,\Gamma(c + 1)\, e^{z} / S(z), \qquad z = t^{1/c},
+
+    a fixed point whose map contracts by about :math:`z/(c+1) < 10^{-3}` per step; six steps
+    from :math:`t_0 = P\,\Gamma(c+1)` reach full precision.
+    """
+    huge = c >= 100.0
+    if np.any(huge):  # t = z**c < 1e-300 there: scalar route (rare)
+        out = np.empty(target.shape)
+        out[huge] = [
+            _small_quantile_scalar(float(v), float(cv))
+            for v, cv in zip(target[huge], c[huge], strict=True)
+        ]
+        out[~huge] = _small_quantile(target[~huge], c[~huge])
+        return out
+    t0 = target * sc.gamma(c + 1.0)
+    t = t0
+    b = 1.0 / c
+    for _ in range(_FIXED_POINT_STEPS):
+        z = t**b
+        s = np.ones_like(z)
+        for j in range(6, 0, -1):
+            s = 1.0 + z / (c + j) * s
+        t = t0 * np.exp(z) / s
+    return t
+
+
 def _std_quantile_scalar(p: float, shape: float) -> float:
     """Signed standardised quantile t with F(m + a t) = p (scalar)."""
+    if shape == 1.0:  # Laplace: F^{-1}(p) = log(2p) for p < 1/2 (exact inverse of 0.5 exp)
+        r = 2.0 * min(p, 1.0 - p)
+        w = -math.log(r) if r > 0.0 else _INF
+        return -w if p < 0.5 else w
     c = 1.0 / shape
     if _P_CENTRAL <= p <= 1.0 - _P_CENTRAL:
         # central part: P-inverse of |2p - 1| (exact for p >= 1/4, Sterbenz)
-        w = float(_cs.gammaincinv(c, abs(2.0 * p - 1.0))) ** c
-    elif p < 0.5:
-        w = float(_cs.gammainccinv(c, 2.0 * p)) ** c
+        target = abs(2.0 * p - 1.0)
+        z = float(_cs.gammaincinv(c, target))
     else:
-        w = float(_cs.gammainccinv(c, 2.0 * (1.0 - p))) ** c
+        target = 1.0 - 2.0 * min(p, 1.0 - p)
+        z = float(_cs.gammainccinv(c, 2.0 * min(p, 1.0 - p)))
+    if z < _Z_FIXED_POINT:
+        w = _small_quantile_scalar(target, c)
+    else:
+        try:
+            w = z**c
+        except OverflowError:  # beyond the float range, as on the array path
+            w = _INF
     return -w if p < 0.5 else w
 
 
 def _std_quantile(p: NDArray[np.float64], shape: NDArray[np.float64]) -> NDArray[np.float64]:
     """Signed standardised quantile t with F(m + a t) = p (arrays, broadcasting)."""
+    if shape.ndim == 0 and float(shape) == 1.0:
+        # Laplace closed form, -log(2 min(p, 1-p)) with the sign of p - 1/2 (1 - p exact)
+        with np.errstate(divide="ignore"):
+            lo = p < 0.5
+            w = -np.log(2.0 * np.where(lo, p, 1.0 - p))
+        return np.where(lo, -w, w)
     pb, bb = np.broadcast_arrays(p, shape)
     c = 1.0 / bb
     central = (pb >= _P_CENTRAL) & (pb <= 1.0 - _P_CENTRAL)
     z = np.empty(pb.shape)
-    if np.any(central):
-        z[central] = _gammaincinv(c[central], np.abs(2.0 * pb[central] - 1.0))
-    tail = ~central
-    if np.any(tail):
+    if np.all(central):
+        z = _gammaincinv(c, np.abs(2.0 * pb - 1.0))
+    else:
+        if np.any(central):
+            z[central] = _gammaincinv(c[central], np.abs(2.0 * pb[central] - 1.0))
+        tail = ~central
         pt = pb[tail]
         z[tail] = _gammainccinv(c[tail], 2.0 * np.where(pt < 0.5, pt, 1.0 - pt))
-    w = z**c
+    with np.errstate(over="ignore"):
+        w = z**c
+    small = z < _Z_FIXED_POINT
+    if np.any(small):
+        ps, cs = pb[small], c[small]
+        target = np.where(
+            central[small], np.abs(2.0 * ps - 1.0), 1.0 - 2.0 * np.minimum(ps, 1.0 - ps)
+        )
+        w[small] = _small_quantile(target, cs)
     return np.where(pb < 0.5, -w, w)
 
 
