@@ -76,9 +76,9 @@ def _series_terms(zmax: float, cmin: float) -> int:
 
 
 def _p_series(
-    dabs: NDArray[np.float64], z: NDArray[np.float64], c: float | NDArray[np.float64]
+    zc: NDArray[np.float64], z: NDArray[np.float64], c: float | NDArray[np.float64]
 ) -> NDArray[np.float64]:
-    r""":math:`P(c, z)` by the power series, with :math:`z^c = |d|` (for :math:`z < c + 1`).
+    r""":math:`P(c, z)` by the power series, given ``zc`` :math:`= z^c` (for :math:`z < c + 1`).
 
     Horner's rule on :math:`1 + \frac{z}{c+1}(1 + \frac{z}{c+2}(1 + \cdots))`; every term is
     positive (no cancellation), so the relative error is a few ulps.
@@ -98,9 +98,58 @@ def _p_series(
     else:
         lead = np.exp(-_gammaln(c + 1.0))
     s *= np.exp(-z)
-    s *= dabs
+    s *= zc
     s *= lead
     return s
+
+
+#: zeta(k) * (-1)^k / k, k = 2..11, for log Gamma(1 + c) at small c (A&S 6.1.33).
+_LGAMMA1P = [(-1) ** k * float(sc.zeta(k)) / k for k in range(2, 12)]
+_EULER_GAMMA = 0.5772156649015329
+
+
+def _lgamma1p(c: float | NDArray[np.float64]) -> float | NDArray[np.float64]:
+    r""":math:`\log\Gamma(1 + c)` with full relative accuracy for :math:`0 < c \le 0.02`.
+
+    :math:`\log\Gamma(1+c) = -\gamma c + \sum_{k\ge2} (-1)^k \zeta(k) c^k / k`
+    (Abramowitz & Stegun 6.1.33; 10 terms: truncation below :math:`0.02^{11}`); forming
+    ``1 + c`` first would lose :math:`\varepsilon / c` of it. Larger ``c``: ``gammaln(1 + c)``.
+    """
+    if np.ndim(c) == 0:
+        cf = float(c)
+        if cf > 0.02:
+            return math.lgamma(1.0 + cf)
+        acc = 0.0
+        for coef in reversed(_LGAMMA1P):
+            acc = (acc + coef) * cf
+        return (acc - _EULER_GAMMA) * cf
+    c = np.asarray(c, dtype=np.float64)
+    acc = np.zeros_like(c)
+    for coef in reversed(_LGAMMA1P):
+        acc = (acc + coef) * c
+    return np.where(c > 0.02, _gammaln(1.0 + c), (acc - _EULER_GAMMA) * c)
+
+
+#: Body points with P > 0.9 and z below this take Q = -expm1(log P) (huge shapes only).
+_Z_SMALL = 1e-3
+
+
+def _q_small_z(
+    zc: NDArray[np.float64], z: NDArray[np.float64], c: float | NDArray[np.float64]
+) -> NDArray[np.float64]:
+    r""":math:`Q = -\operatorname{expm1}(\log P)` for :math:`z < 10^{-3}` and :math:`P > 0.9`.
+
+    This happens only for huge shapes (:math:`c = 1/b < 0.015`), where :math:`z = |d|^b` may
+    underflow and ``gammaincc(c, z)`` then returns 1. With
+    :math:`\log P = \log z^c - z - \log\Gamma(c+1) + \log S(z)` (A&S 6.5.29) and
+    :math:`\log z^c = \log |d|` every term is small and exact to a few ulps, so
+    :math:`Q \approx -\log P` keeps full relative accuracy.
+    """
+    s = np.zeros_like(z)
+    for j in range(6, 0, -1):
+        s = z / (c + j) * (1.0 + s)
+    with np.errstate(divide="ignore"):
+        return -np.expm1(np.log(zc) - z - _lgamma1p(c) + np.log1p(s))
 
 
 # --------------------------------------------------------------------------------------------
@@ -140,15 +189,31 @@ def _q_array(d: NDArray[np.float64], b: NDArray[np.float64]) -> NDArray[np.float
         hard = p > _P_SWITCH
         np.subtract(1.0, p, out=p)
         if np.any(hard):
+            tiny = hard & (zb < _Z_SMALL)
+            p[tiny] = _q_small_z(dabs[ib][tiny], zb[tiny], cb[tiny])
+            hard &= ~tiny
             p[hard] = _gammaincc(cb[hard], zb[hard])
         q[ib] = p
     return q.reshape(shape)
 
 
+def q_power(t: NDArray[np.float64], b: float, k: float) -> NDArray[np.float64]:
+    r""":math:`Q(k/b, |t|^b)` for one shape ``b``, with :math:`z^{k/b} = |t|^k` in the body series.
+
+    E.g. ``k = 2`` gives the Expected Shortfall factor :math:`Q(2/b, |t|^b)`; for huge shapes
+    :math:`|t|^b` underflows although :math:`P = |t|^2 \ldots` does not.
+    """
+    tabs = np.abs(np.asarray(t, dtype=np.float64))
+    with np.errstate(over="ignore", under="ignore"):
+        z = tabs**b
+        zc = tabs**k
+    return _q_scalar_shape(zc, z, k / b)
+
+
 def _q_scalar_shape(
     dabs: NDArray[np.float64], z: NDArray[np.float64], c: float
 ) -> NDArray[np.float64]:
-    """:func:`_q_array` for one shape (``c = 1/b``): the common case, scalar thresholds."""
+    """:func:`_q_array` for one shape (``c = 1/b``; ``dabs = z**c``), scalar thresholds."""
     if z.ndim == 0:
         return np.asarray(_q_scalar_cz(float(dabs), float(z), c))
     q = np.zeros(z.shape)
@@ -158,10 +223,15 @@ def _q_scalar_shape(
         q[mid] = _gammaincc(c, z[mid])
     if np.any(body):
         zb = z[body]
-        p = _p_series(dabs[body], zb, c) if c <= _SERIES_C_MAX else _gammainc(c, zb)
+        db = dabs[body]
+        p = _p_series(db, zb, c) if c <= _SERIES_C_MAX else _gammainc(c, zb)
         hard = p > _P_SWITCH
         np.subtract(1.0, p, out=p)
         if np.any(hard):
+            tiny = hard & (zb < _Z_SMALL)
+            if np.any(tiny):
+                p[tiny] = _q_small_z(db[tiny], zb[tiny], c)
+                hard &= ~tiny
             p[hard] = _gammaincc(c, zb[hard])
         q[body] = p
     return q
@@ -173,15 +243,16 @@ def _q_scalar_shape(
 def _q_scalar_cz(dabs: float, z: float, c: float) -> float:
     """Scalar ``Q(c, z)`` with ``z = dabs**(1/c)`` (same routes as the arrays)."""
     if z < c + 1.0:
-        if z < 1e-8:
-            # three series terms are exact here; z**c = dabs avoids the underflow of z
-            p = (
-                dabs
-                * (1.0 + z / (c + 1.0) * (1.0 + z / (c + 2.0)))
-                * math.exp(-z - math.lgamma(c + 1.0))
-            )
-        else:
-            p = float(_cs.gammainc(c, z))
+        if z < _Z_SMALL:
+            # six series terms are exact here; z**c = dabs avoids the underflow of z
+            if dabs == 0.0:
+                return 1.0
+            s = 0.0
+            for j in range(6, 0, -1):
+                s = z / (c + j) * (1.0 + s)
+            log_p = math.log(dabs) - z - _lgamma1p(c) + math.log1p(s)
+            return -math.expm1(log_p) if log_p > -0.1 else 1.0 - math.exp(log_p)
+        p = float(_cs.gammainc(c, z))
         if p <= _P_SWITCH:
             return 1.0 - p
     elif z >= _Z_ZERO * max(c, 1.0):

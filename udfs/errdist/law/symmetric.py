@@ -75,6 +75,13 @@ _P_CENTRAL = 0.05
 #: paths call scipy.special.cython_special (same code as the ufuncs, Python-float calling
 #: convention, far less call overhead).
 _FAST = frozenset({float, int, np.float64})
+#: Smallest accepted shape: the smallest normal double. Below it 1/b overflows and every
+#: quantile other than the median lies beyond the float range.
+_SHAPE_FLOOR = 2.2250738585072014e-308
+_SHAPE_FLOOR_RULE = (
+    "at least 2.2e-308 (the smallest normal number; below it the law puts all its mass "
+    "beyond the float range)"
+)
 
 _gammaincc = sc.gammaincc
 _gammainc = sc.gammainc
@@ -87,9 +94,15 @@ _gammaln = sc.gammaln
 # validation helpers
 # --------------------------------------------------------------------------------------------
 def _check_arrays(
-    loc: NDArray[np.float64], scale: NDArray[np.float64], shape: NDArray[np.float64]
+    loc: NDArray[np.float64],
+    scale: NDArray[np.float64],
+    shape: NDArray[np.float64],
+    shape_floor: bool = True,
 ) -> None:
-    """Validate already-converted parameter arrays (see :func:`check_params`)."""
+    """Validate already-converted parameter arrays (see :func:`check_params`).
+
+    ``shape_floor`` false accepts sub-normal shapes (the moments: their limit, ``inf``).
+    """
     if not np.all(np.isfinite(loc)):
         _raise_first("loc", loc, ~np.isfinite(loc), "finite")
     for name, arr in (("scale", scale), ("shape", shape)):
@@ -97,6 +110,8 @@ def _check_arrays(
             _raise_first(name, arr, ~(arr > 0.0), "> 0")
         if not np.all(np.isfinite(arr)):
             _raise_first(name, arr, ~np.isfinite(arr), "finite")
+    if shape_floor and not np.all(shape >= _SHAPE_FLOOR):
+        _raise_first("shape", shape, ~(shape >= _SHAPE_FLOOR), _SHAPE_FLOOR_RULE)
 
 
 def check_params(loc: ArrayLike, scale: ArrayLike, shape: ArrayLike) -> None:
@@ -107,9 +122,11 @@ def check_params(loc: ArrayLike, scale: ArrayLike, shape: ArrayLike) -> None:
     loc : array_like
         Location :math:`m`; must be finite.
     scale : array_like
-        Scale :math:`a`; must be finite and > 0.
+        Scale :math:`a`; must be finite and > 0 (sub-normal scales are accepted: the tails
+        are exact, the density at the centre may overflow to ``inf``).
     shape : array_like
-        Shape :math:`b`; must be finite and > 0.
+        Shape :math:`b`; must be finite and at least 2.2e-308, the smallest normal double
+        (below it :math:`1/b` overflows and every quantile but the median is infinite).
 
     Raises
     ------
@@ -128,12 +145,12 @@ def check_params(loc: ArrayLike, scale: ArrayLike, shape: ArrayLike) -> None:
 
 
 def _params(
-    loc: ArrayLike, scale: ArrayLike, shape: ArrayLike
+    loc: ArrayLike, scale: ArrayLike, shape: ArrayLike, shape_floor: bool = True
 ) -> tuple[NDArray[np.float64], NDArray[np.float64], NDArray[np.float64]]:
     m = _as_float_array("loc", loc)
     a = _as_float_array("scale", scale)
     b = _as_float_array("shape", shape)
-    _check_arrays(m, a, b)
+    _check_arrays(m, a, b, shape_floor)
     return m, a, b
 
 
@@ -143,7 +160,7 @@ def _fast_scalars(x: ArrayLike, loc: ArrayLike, scale: ArrayLike, shape: ArrayLi
     ``x`` is the point or the probability; it is not checked here.
     """
     if type(x) in _FAST and type(loc) in _FAST and type(scale) in _FAST and type(shape) in _FAST:
-        if not (0.0 < scale < _INF and 0.0 < shape < _INF and -_INF < loc < _INF):
+        if not (0.0 < scale < _INF and _SHAPE_FLOOR <= shape < _INF and -_INF < loc < _INF):
             check_params(loc, scale, shape)
         return True
     return False
@@ -187,7 +204,8 @@ def _log_norm_and_z(
     d, a, b = _std_offsets(x, loc, scale, shape)
     with np.errstate(over="ignore"):
         z = np.abs(d) ** b
-    return np.log(0.5 * b / a) - _gammaln(1.0 / b), z
+    # log(b/2) - log(a): no overflow of b / a for a sub-normal scale
+    return np.log(0.5 * b) - np.log(a) - _gammaln(1.0 / b), z
 
 
 def logpdf(
@@ -216,7 +234,7 @@ def logpdf(
     """
     if _fast_scalars(x, loc, scale, shape):
         z = _scalar_z((x - loc) / scale, shape)
-        return float(math.log(0.5 * shape / scale) - float(_cs.gammaln(1.0 / shape)) - z)
+        return float(math.log(0.5 * shape) - math.log(scale) - float(_cs.gammaln(1.0 / shape)) - z)
     lognorm, z = _log_norm_and_z(x, loc, scale, shape)
     return _out(lognorm - z)
 
@@ -246,18 +264,22 @@ def pdf(
         Python float when every input is a scalar.
     """
     if _fast_scalars(x, loc, scale, shape):
-        lognorm = math.log(0.5 * shape / scale) - float(_cs.gammaln(1.0 / shape))
+        lognorm = math.log(0.5 * shape) - math.log(scale) - float(_cs.gammaln(1.0 / shape))
         z = _scalar_z((x - loc) / scale, shape)
         ez = math.exp(-z)
         if ez > 1e-290 and -690.0 < lognorm < 690.0:
             return math.exp(lognorm) * ez
-        return math.exp(lognorm - z)
+        try:
+            return math.exp(lognorm - z)
+        except OverflowError:  # a sub-normal scale: the density exceeds the float range
+            return _INF
     lognorm, z = _log_norm_and_z(x, loc, scale, shape)
     ez = np.exp(-z)
     # exp(lognorm) * exp(-z) avoids rounding the sum lognorm - z (error ~ z * eps); fall back
     # to the sum where either factor leaves the normal float range
     direct = (ez > 1e-290) & (lognorm > -690.0) & (lognorm < 690.0)
-    out = np.where(direct, np.exp(np.where(direct, lognorm, 0.0)) * ez, np.exp(lognorm - z))
+    with np.errstate(over="ignore"):  # a sub-normal scale: inf at the centre
+        out = np.where(direct, np.exp(np.where(direct, lognorm, 0.0)) * ez, np.exp(lognorm - z))
     return _out(out)
 
 
@@ -515,7 +537,8 @@ def _std_quantile(p: NDArray[np.float64], shape: NDArray[np.float64]) -> NDArray
             lo = p < 0.5
             w = -np.log(2.0 * np.where(lo, p, 1.0 - p))
         return np.where(lo, -w, w)
-    pb, bb = np.broadcast_arrays(p, shape)
+    pb, bb = np.broadcast_arrays(np.atleast_1d(p), np.atleast_1d(shape))
+    out_shape = np.broadcast_shapes(p.shape, shape.shape)
     c = 1.0 / bb
     central = (pb >= _P_CENTRAL) & (pb <= 1.0 - _P_CENTRAL)
     z = np.empty(pb.shape)
@@ -536,7 +559,7 @@ def _std_quantile(p: NDArray[np.float64], shape: NDArray[np.float64]) -> NDArray
             central[small], np.abs(2.0 * ps - 1.0), 1.0 - 2.0 * np.minimum(ps, 1.0 - ps)
         )
         w[small] = _small_quantile(target, cs)
-    return np.where(pb < 0.5, -w, w)
+    return np.where(pb < 0.5, -w, w).reshape(out_shape)
 
 
 def _quantile(
