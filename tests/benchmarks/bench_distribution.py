@@ -2,8 +2,10 @@
 
 Run: ``python tests/benchmarks/bench_distribution.py [--repeat N]``.
 Prints best-of-N timings and the ratio ours / scipy for each case. Targets (docs/performance.md,
-"Distribution functions"): scalar cdf <= 1/20 of scipy's scalar call; array cdf on 1,000,000
-points no slower than scipy.
+"Distribution functions"): scalar calls <= 1/20 of scipy's scalar call; on the grid of shapes
+{0.6, 0.92, 1.0, 1.3, 2, 4} x two point sets (x ~ N(0, (2a)^2) and x uniform over +-16 scales),
+1,000,000 points, every array cell (cdf, sf, logcdf, logsf, pdf, ppf) no slower than scipy.
+``--grid-only`` skips the scalar and single-shape sections; ``--n`` sets the array length.
 """
 
 from __future__ import annotations
@@ -27,8 +29,13 @@ def best(stmt, number: int, repeat: int) -> float:  # type: ignore[no-untyped-de
 def main() -> None:
     parser = argparse.ArgumentParser(description=__doc__)
     parser.add_argument("--repeat", type=int, default=7)
+    parser.add_argument("--n", type=int, default=1_000_000)
+    parser.add_argument("--grid-only", action="store_true")
     args = parser.parse_args()
     r = args.repeat
+    if args.grid_only:
+        grid(args.n, r)
+        return
     g = stats.gennorm
     loc, scale, shape = 0.001, 0.012, 1.3
     print(f"parameters: loc={loc}, scale={scale}, shape={shape} unless named")
@@ -75,6 +82,40 @@ def main() -> None:
         t_ours = best(ours, 1, r)
         t_ref = best(ref, 1, r)
         print(f"{name:10s} {t_ours * 1e3:10.1f} {t_ref * 1e3:11.1f} {t_ours / t_ref:8.3f}")
+    grid(n, r)
+
+
+GRID_SHAPES = (0.6, 0.92, 1.0, 1.3, 2.0, 4.0)
+GRID_FUNCTIONS = ("cdf", "sf", "logcdf", "logsf", "pdf", "ppf")
+
+
+def grid(n: int, r: int) -> None:
+    """Ratio ours / scipy for every function x shape x point set (the issue-10 grid)."""
+    g = stats.gennorm
+    loc, scale = 0.001, 0.012
+    rng = np.random.default_rng(20261203)
+    sets = {
+        "normal": loc + rng.standard_normal(n) * 2.0 * scale,
+        "uniform16": loc + rng.uniform(-16.0, 16.0, n) * scale,
+    }
+    print(f"\ngrid: arrays of {n:,} points, loc={loc}, scale={scale}, best of {r}")
+    print("point sets: normal = x ~ N(loc, (2 scale)^2); uniform16 = x ~ U(loc -+ 16 scale)")
+    print("ppf uses p = cdf(x) of the same points")
+    print(f"{'function':8s} {'points':10s} " + " ".join(f"{b:>7g}" for b in GRID_SHAPES))
+    worst = 0.0
+    for name in GRID_FUNCTIONS:
+        ours_f = getattr(D, name)
+        ref_f = getattr(g, name)
+        for set_name, x in sets.items():
+            cells = []
+            for b in GRID_SHAPES:
+                arg = D.cdf(x, loc, scale, b) if name == "ppf" else x
+                t_ours = best(lambda: ours_f(arg, loc, scale, b), 1, r)  # noqa: B023
+                t_ref = best(lambda: ref_f(arg, b, loc, scale), 1, r)  # noqa: B023
+                cells.append(t_ours / t_ref)
+            worst = max(worst, *cells)
+            print(f"{name:8s} {set_name:10s} " + " ".join(f"{c:7.3f}" for c in cells))
+    print(f"worst ratio on the grid: {worst:.3f} (target <= 1.0)")
 
 
 if __name__ == "__main__":

@@ -26,61 +26,137 @@ from __future__ import annotations
 
 __version__ = "0.1.0"
 
-# isort: split
+from typing import TYPE_CHECKING, Any
+
 from errdist.errors import DomainError, InputTypeError, InsufficientDataError
-from errdist.estimate import (
-    SHAPE_MAX,
-    SHAPE_MIN,
-    Fit,
-    clean_sample,
-    fit,
-    loglik,
-    sample_excess_kurtosis,
-    sample_mean,
-    sample_median,
-    sample_skewness,
-    sample_std,
-    solve_scale,
-    solve_shape,
-)
-from errdist.law import (
-    cdf,
-    check_params,
-    excess_kurtosis,
-    isf,
-    logcdf,
-    logpdf,
-    logsf,
-    pdf,
-    ppf,
-    rvs,
-    sf,
-    variance,
-)
 
-# isort: split
-from errdist.checks.backtest import (
-    BacktestResult,
-    backtest,
-    christoffersen,
-    kupiec,
-    traffic_light,
-)
-from errdist.checks.empirical import empirical_points, plotting_positions
-from errdist.checks.goodness import GofResult, edf_statistic, goodness_of_fit
-from errdist.checks.rivals import compare
-from errdist.checks.rolling import rolling_var
-from errdist.data.returns import returns_from_prices
-from errdist.risk import expected_shortfall, value_at_risk
+#: Public name -> the module that defines it. Imported on first use (PEP 562 module
+#: ``__getattr__``), so ``import errdist`` does not pull in scipy.stats, scipy.optimize or
+#: pandas; ``errdist.X`` and ``from errdist import X`` work as with eager imports.
+_LAZY = {
+    **dict.fromkeys(
+        (
+            "SHAPE_MAX",
+            "SHAPE_MIN",
+            "Fit",
+            "clean_sample",
+            "fit",
+            "loglik",
+            "sample_excess_kurtosis",
+            "sample_mean",
+            "sample_median",
+            "sample_skewness",
+            "sample_std",
+            "solve_scale",
+            "solve_shape",
+        ),
+        "errdist.estimate",
+    ),
+    **dict.fromkeys(
+        (
+            "cdf",
+            "check_params",
+            "excess_kurtosis",
+            "isf",
+            "logcdf",
+            "logpdf",
+            "logsf",
+            "pdf",
+            "ppf",
+            "rvs",
+            "sf",
+            "variance",
+        ),
+        "errdist.law",
+    ),
+    **dict.fromkeys(
+        ("BacktestResult", "backtest", "christoffersen", "kupiec", "traffic_light"),
+        "errdist.checks.backtest",
+    ),
+    "empirical_points": "errdist.checks.empirical",
+    "plotting_positions": "errdist.checks.empirical",
+    "GofResult": "errdist.checks.goodness",
+    "edf_statistic": "errdist.checks.goodness",
+    "goodness_of_fit": "errdist.checks.goodness",
+    "compare": "errdist.checks.rivals",
+    "rolling_var": "errdist.checks.rolling",
+    "returns_from_prices": "errdist.data.returns",
+    "expected_shortfall": "errdist.risk",
+    "value_at_risk": "errdist.risk",
+    "skewed": "errdist.law.skewed",  # the module itself: the skewed law's namespace
+    "es_backtest": "errdist.checks.es_backtest",
+    "backtest_models": "errdist.checks.model_backtest",
+    "ConditionalFit": "errdist.risk.conditional",
+    "fit_ewma": "errdist.risk.conditional",
+    "fit_gjr": "errdist.risk.conditional",
+    "rolling_forecasts": "errdist.risk.forecasts",
+}
 
-# isort: split
-from errdist.law import skewed
 
-# isort: split
-from errdist.checks.es_backtest import es_backtest
-from errdist.checks.model_backtest import backtest_models
-from errdist.risk.conditional import ConditionalFit, fit_ewma, fit_gjr
-from errdist.risk.forecasts import rolling_forecasts
+def __getattr__(name: str) -> Any:
+    module = _LAZY.get(name)
+    if module is None:
+        raise AttributeError(f"module 'errdist' has no attribute {name!r}")
+    import importlib
+
+    mod = importlib.import_module(module)
+    value = mod if module.endswith("." + name) else getattr(mod, name)
+    globals()[name] = value  # later look-ups skip this function
+    return value
+
+
+def __dir__() -> list[str]:
+    return sorted(set(globals()) | set(__all__))
+
+
+if TYPE_CHECKING:  # static analysis sees the eager imports
+    from errdist.checks.backtest import (
+        BacktestResult,
+        backtest,
+        christoffersen,
+        kupiec,
+        traffic_light,
+    )
+    from errdist.checks.empirical import empirical_points, plotting_positions
+    from errdist.checks.es_backtest import es_backtest
+    from errdist.checks.goodness import GofResult, edf_statistic, goodness_of_fit
+    from errdist.checks.model_backtest import backtest_models
+    from errdist.checks.rivals import compare
+    from errdist.checks.rolling import rolling_var
+    from errdist.data.returns import returns_from_prices
+    from errdist.estimate import (
+        SHAPE_MAX,
+        SHAPE_MIN,
+        Fit,
+        clean_sample,
+        fit,
+        loglik,
+        sample_excess_kurtosis,
+        sample_mean,
+        sample_median,
+        sample_skewness,
+        sample_std,
+        solve_scale,
+        solve_shape,
+    )
+    from errdist.law import (
+        cdf,
+        check_params,
+        excess_kurtosis,
+        isf,
+        logcdf,
+        logpdf,
+        logsf,
+        pdf,
+        ppf,
+        rvs,
+        sf,
+        skewed,
+        variance,
+    )
+    from errdist.risk import expected_shortfall, value_at_risk
+    from errdist.risk.conditional import ConditionalFit, fit_ewma, fit_gjr
+    from errdist.risk.forecasts import rolling_forecasts
 
 __all__ = [
     "SHAPE_MAX",

@@ -94,14 +94,20 @@ def _run_demo(args: argparse.Namespace) -> int:
     return print_demo_fit()
 
 
-def _run_version(args: argparse.Namespace) -> int:
-    import numpy
-    import pandas
-    import scipy
+def _dist_version(name: str) -> str:
+    """Installed version of a distribution from its metadata (no import of the package)."""
+    from importlib import metadata
 
+    try:
+        return metadata.version(name)
+    except metadata.PackageNotFoundError:
+        return "not installed"
+
+
+def _run_version(args: argparse.Namespace) -> int:
     print(
-        f"errdist {__version__} (numpy {numpy.__version__}, scipy {scipy.__version__}, "
-        f"pandas {pandas.__version__}, Python {sys.version.split()[0]})"
+        f"errdist {__version__} (numpy {_dist_version('numpy')}, scipy {_dist_version('scipy')}, "
+        f"pandas {_dist_version('pandas')}, Python {sys.version.split()[0]})"
     )
     return 0
 

@@ -16,7 +16,6 @@ from __future__ import annotations
 import math
 
 import numpy as np
-from scipy.optimize import brentq
 from scipy.special import gammaln, psi, zeta
 
 from errdist.errors import DomainError
@@ -96,6 +95,8 @@ def solve_shape(excess_kurtosis: float) -> float:
 
     def resid(u: float) -> float:
         return _log_excess(math.exp(u))[0] - y
+
+    from scipy.optimize import brentq  # deferred: scipy.optimize is slow to import
 
     u = brentq(resid, _U_LO, _U_HI, xtol=1e-15, rtol=4.0 * np.finfo(float).eps, maxiter=200)
     for _ in range(2):  # Newton polish: D is smooth and strictly decreasing in u

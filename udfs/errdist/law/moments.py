@@ -40,9 +40,14 @@ def variance(scale: ArrayLike, shape: ArrayLike) -> FloatOrArray:
     -------
     float or numpy.ndarray
     """
-    _, a, b = _params(0.0, scale, shape)
-    with np.errstate(over="ignore"):
-        v = a * a * np.exp(_gammaln(3.0 / b) - _gammaln(1.0 / b))
+    _, a, b = _params(0.0, scale, shape, shape_floor=False)
+    with np.errstate(over="ignore", invalid="ignore", under="ignore"):
+        lr = _gammaln(3.0 / b) - _gammaln(1.0 / b)
+        v = a * a * np.exp(lr)
+        # where a * a leaves the normal range (or the product is 0 * inf), in logs
+        odd = ~((a * a >= 2.2250738585072014e-308) & (a * a < _INF)) & np.isfinite(lr)
+        if np.any(odd):
+            v = np.where(odd, np.exp(2.0 * np.log(a) + lr), v)
     return _out(np.asarray(v, dtype=np.float64))
 
 
@@ -127,7 +132,7 @@ def excess_kurtosis(shape: ArrayLike) -> FloatOrArray:
     -------
     float or numpy.ndarray
     """
-    _, _, b = _params(0.0, 1.0, shape)
+    _, _, b = _params(0.0, 1.0, shape, shape_floor=False)
     large = b >= 20.0
     with np.errstate(over="ignore", invalid="ignore"):
         e = 1.0 / b

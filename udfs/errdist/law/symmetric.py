@@ -75,6 +75,13 @@ _P_CENTRAL = 0.05
 #: paths call scipy.special.cython_special (same code as the ufuncs, Python-float calling
 #: convention, far less call overhead).
 _FAST = frozenset({float, int, np.float64})
+#: Smallest accepted shape: the smallest normal double. Below it 1/b overflows and every
+#: quantile other than the median lies beyond the float range.
+_SHAPE_FLOOR = 2.2250738585072014e-308
+_SHAPE_FLOOR_RULE = (
+    "at least 2.2e-308 (the smallest normal number; below it the law puts all its mass "
+    "beyond the float range)"
+)
 
 _gammaincc = sc.gammaincc
 _gammainc = sc.gammainc
@@ -87,9 +94,15 @@ _gammaln = sc.gammaln
 # validation helpers
 # --------------------------------------------------------------------------------------------
 def _check_arrays(
-    loc: NDArray[np.float64], scale: NDArray[np.float64], shape: NDArray[np.float64]
+    loc: NDArray[np.float64],
+    scale: NDArray[np.float64],
+    shape: NDArray[np.float64],
+    shape_floor: bool = True,
 ) -> None:
-    """Validate already-converted parameter arrays (see :func:`check_params`)."""
+    """Validate already-converted parameter arrays (see :func:`check_params`).
+
+    ``shape_floor`` false accepts sub-normal shapes (the moments: their limit, ``inf``).
+    """
     if not np.all(np.isfinite(loc)):
         _raise_first("loc", loc, ~np.isfinite(loc), "finite")
     for name, arr in (("scale", scale), ("shape", shape)):
@@ -97,6 +110,8 @@ def _check_arrays(
             _raise_first(name, arr, ~(arr > 0.0), "> 0")
         if not np.all(np.isfinite(arr)):
             _raise_first(name, arr, ~np.isfinite(arr), "finite")
+    if shape_floor and not np.all(shape >= _SHAPE_FLOOR):
+        _raise_first("shape", shape, ~(shape >= _SHAPE_FLOOR), _SHAPE_FLOOR_RULE)
 
 
 def check_params(loc: ArrayLike, scale: ArrayLike, shape: ArrayLike) -> None:
@@ -107,9 +122,11 @@ def check_params(loc: ArrayLike, scale: ArrayLike, shape: ArrayLike) -> None:
     loc : array_like
         Location :math:`m`; must be finite.
     scale : array_like
-        Scale :math:`a`; must be finite and > 0.
+        Scale :math:`a`; must be finite and > 0 (sub-normal scales are accepted: the tails
+        are exact, the density at the centre may overflow to ``inf``).
     shape : array_like
-        Shape :math:`b`; must be finite and > 0.
+        Shape :math:`b`; must be finite and at least 2.2e-308, the smallest normal double
+        (below it :math:`1/b` overflows and every quantile but the median is infinite).
 
     Raises
     ------
@@ -128,12 +145,12 @@ def check_params(loc: ArrayLike, scale: ArrayLike, shape: ArrayLike) -> None:
 
 
 def _params(
-    loc: ArrayLike, scale: ArrayLike, shape: ArrayLike
+    loc: ArrayLike, scale: ArrayLike, shape: ArrayLike, shape_floor: bool = True
 ) -> tuple[NDArray[np.float64], NDArray[np.float64], NDArray[np.float64]]:
     m = _as_float_array("loc", loc)
     a = _as_float_array("scale", scale)
     b = _as_float_array("shape", shape)
-    _check_arrays(m, a, b)
+    _check_arrays(m, a, b, shape_floor)
     return m, a, b
 
 
@@ -143,7 +160,7 @@ def _fast_scalars(x: ArrayLike, loc: ArrayLike, scale: ArrayLike, shape: ArrayLi
     ``x`` is the point or the probability; it is not checked here.
     """
     if type(x) in _FAST and type(loc) in _FAST and type(scale) in _FAST and type(shape) in _FAST:
-        if not (0.0 < scale < _INF and 0.0 < shape < _INF and -_INF < loc < _INF):
+        if not (0.0 < scale < _INF and _SHAPE_FLOOR <= shape < _INF and -_INF < loc < _INF):
             check_params(loc, scale, shape)
         return True
     return False
@@ -187,7 +204,8 @@ def _log_norm_and_z(
     d, a, b = _std_offsets(x, loc, scale, shape)
     with np.errstate(over="ignore"):
         z = np.abs(d) ** b
-    return np.log(0.5 * b / a) - _gammaln(1.0 / b), z
+    # log(b/2) - log(a): no overflow of b / a for a sub-normal scale
+    return np.log(0.5 * b) - np.log(a) - _gammaln(1.0 / b), z
 
 
 def logpdf(
@@ -216,7 +234,7 @@ def logpdf(
     """
     if _fast_scalars(x, loc, scale, shape):
         z = _scalar_z((x - loc) / scale, shape)
-        return float(math.log(0.5 * shape / scale) - float(_cs.gammaln(1.0 / shape)) - z)
+        return float(math.log(0.5 * shape) - math.log(scale) - float(_cs.gammaln(1.0 / shape)) - z)
     lognorm, z = _log_norm_and_z(x, loc, scale, shape)
     return _out(lognorm - z)
 
@@ -246,18 +264,22 @@ def pdf(
         Python float when every input is a scalar.
     """
     if _fast_scalars(x, loc, scale, shape):
-        lognorm = math.log(0.5 * shape / scale) - float(_cs.gammaln(1.0 / shape))
+        lognorm = math.log(0.5 * shape) - math.log(scale) - float(_cs.gammaln(1.0 / shape))
         z = _scalar_z((x - loc) / scale, shape)
         ez = math.exp(-z)
         if ez > 1e-290 and -690.0 < lognorm < 690.0:
             return math.exp(lognorm) * ez
-        return math.exp(lognorm - z)
+        try:
+            return math.exp(lognorm - z)
+        except OverflowError:  # a sub-normal scale: the density exceeds the float range
+            return _INF
     lognorm, z = _log_norm_and_z(x, loc, scale, shape)
     ez = np.exp(-z)
     # exp(lognorm) * exp(-z) avoids rounding the sum lognorm - z (error ~ z * eps); fall back
     # to the sum where either factor leaves the normal float range
     direct = (ez > 1e-290) & (lognorm > -690.0) & (lognorm < 690.0)
-    out = np.where(direct, np.exp(np.where(direct, lognorm, 0.0)) * ez, np.exp(lognorm - z))
+    with np.errstate(over="ignore"):  # a sub-normal scale: inf at the centre
+        out = np.where(direct, np.exp(np.where(direct, lognorm, 0.0)) * ez, np.exp(lognorm - z))
     return _out(out)
 
 
@@ -423,33 +445,121 @@ def logsf(
 # --------------------------------------------------------------------------------------------
 # quantiles
 # --------------------------------------------------------------------------------------------
+#: Below this z = |t|^b the quantile is refined by the series fixed point (see _small_quantile).
+_Z_FIXED_POINT = 1e-3
+_FIXED_POINT_STEPS = 6
+
+
+def _small_quantile_scalar(target: float, c: float) -> float:
+    """Scalar :func:`_small_quantile`."""
+    if target == 0.0:
+        return 0.0
+    if c < 100.0:
+        t0 = target * math.gamma(c + 1.0)
+    else:  # t = z**c < 1e-300: the quantile is 0 to double precision
+        t0 = math.exp(min(math.log(target) + math.lgamma(c + 1.0), 0.0) - 1000.0 * c)
+    t = t0
+    b = 1.0 / c
+    for _ in range(_FIXED_POINT_STEPS):
+        z = t**b
+        s = 1.0
+        for j in range(6, 0, -1):
+            s = 1.0 + z / (c + j) * s
+        t = t0 * math.exp(z) / s
+    return t
+
+
+def _small_quantile(target: NDArray[np.float64], c: NDArray[np.float64]) -> NDArray[np.float64]:
+    r"""``t >= 0`` with :math:`P(c, t^{1/c}) = ` ``target`` where :math:`z = t^{1/c} < 10^{-3}`.
+
+    ``gammaincinv`` returns :math:`z`, which underflows (or loses digits as a subnormal) when the
+    quantile is very close to the centre or the shape is huge; :math:`t = z^c` itself is a normal
+    number. From the series :math:`P(c, z) = z^c e^{-z} S(z) / \Gamma(c+1)`,
+    :math:`S(z) = \sum_k z^k / ((c+1)\cdots(c+k))` (Abramowitz & Stegun 6.5.29),
+
+    .. math::
+
+        t = P\,\Gamma(c + 1)\, e^{z} / S(z), \qquad z = t^{1/c},
+
+    a fixed point whose map contracts by about :math:`z/(c+1) < 10^{-3}` per step; six steps
+    from :math:`t_0 = P\,\Gamma(c+1)` reach full precision.
+    """
+    huge = c >= 100.0
+    if np.any(huge):  # t = z**c < 1e-300 there: scalar route (rare)
+        out = np.empty(target.shape)
+        out[huge] = [
+            _small_quantile_scalar(float(v), float(cv))
+            for v, cv in zip(target[huge], c[huge], strict=True)
+        ]
+        out[~huge] = _small_quantile(target[~huge], c[~huge])
+        return out
+    t0 = target * sc.gamma(c + 1.0)
+    t = t0
+    b = 1.0 / c
+    for _ in range(_FIXED_POINT_STEPS):
+        z = t**b
+        s = np.ones_like(z)
+        for j in range(6, 0, -1):
+            s = 1.0 + z / (c + j) * s
+        t = t0 * np.exp(z) / s
+    return t
+
+
 def _std_quantile_scalar(p: float, shape: float) -> float:
     """Signed standardised quantile t with F(m + a t) = p (scalar)."""
+    if shape == 1.0:  # Laplace: F^{-1}(p) = log(2p) for p < 1/2 (exact inverse of 0.5 exp)
+        r = 2.0 * min(p, 1.0 - p)
+        w = -math.log(r) if r > 0.0 else _INF
+        return -w if p < 0.5 else w
     c = 1.0 / shape
     if _P_CENTRAL <= p <= 1.0 - _P_CENTRAL:
         # central part: P-inverse of |2p - 1| (exact for p >= 1/4, Sterbenz)
-        w = float(_cs.gammaincinv(c, abs(2.0 * p - 1.0))) ** c
-    elif p < 0.5:
-        w = float(_cs.gammainccinv(c, 2.0 * p)) ** c
+        target = abs(2.0 * p - 1.0)
+        z = float(_cs.gammaincinv(c, target))
     else:
-        w = float(_cs.gammainccinv(c, 2.0 * (1.0 - p))) ** c
+        target = 1.0 - 2.0 * min(p, 1.0 - p)
+        z = float(_cs.gammainccinv(c, 2.0 * min(p, 1.0 - p)))
+    if z < _Z_FIXED_POINT:
+        w = _small_quantile_scalar(target, c)
+    else:
+        try:
+            w = z**c
+        except OverflowError:  # beyond the float range, as on the array path
+            w = _INF
     return -w if p < 0.5 else w
 
 
 def _std_quantile(p: NDArray[np.float64], shape: NDArray[np.float64]) -> NDArray[np.float64]:
     """Signed standardised quantile t with F(m + a t) = p (arrays, broadcasting)."""
-    pb, bb = np.broadcast_arrays(p, shape)
+    if shape.ndim == 0 and float(shape) == 1.0:
+        # Laplace closed form, -log(2 min(p, 1-p)) with the sign of p - 1/2 (1 - p exact)
+        with np.errstate(divide="ignore"):
+            lo = p < 0.5
+            w = -np.log(2.0 * np.where(lo, p, 1.0 - p))
+        return np.where(lo, -w, w)
+    pb, bb = np.broadcast_arrays(np.atleast_1d(p), np.atleast_1d(shape))
+    out_shape = np.broadcast_shapes(p.shape, shape.shape)
     c = 1.0 / bb
     central = (pb >= _P_CENTRAL) & (pb <= 1.0 - _P_CENTRAL)
     z = np.empty(pb.shape)
-    if np.any(central):
-        z[central] = _gammaincinv(c[central], np.abs(2.0 * pb[central] - 1.0))
-    tail = ~central
-    if np.any(tail):
+    if np.all(central):
+        z = _gammaincinv(c, np.abs(2.0 * pb - 1.0))
+    else:
+        if np.any(central):
+            z[central] = _gammaincinv(c[central], np.abs(2.0 * pb[central] - 1.0))
+        tail = ~central
         pt = pb[tail]
         z[tail] = _gammainccinv(c[tail], 2.0 * np.where(pt < 0.5, pt, 1.0 - pt))
-    w = z**c
-    return np.where(pb < 0.5, -w, w)
+    with np.errstate(over="ignore"):
+        w = z**c
+    small = z < _Z_FIXED_POINT
+    if np.any(small):
+        ps, cs = pb[small], c[small]
+        target = np.where(
+            central[small], np.abs(2.0 * ps - 1.0), 1.0 - 2.0 * np.minimum(ps, 1.0 - ps)
+        )
+        w[small] = _small_quantile(target, cs)
+    return np.where(pb < 0.5, -w, w).reshape(out_shape)
 
 
 def _quantile(

@@ -67,6 +67,7 @@ from scipy import special as sc
 from errdist._validate import as_float_array, raise_first
 from errdist._validate import fmt_number as _fmt
 from errdist.errors import DomainError, InputTypeError
+from errdist.law._incgamma import q_power
 from errdist.law.symmetric import check_params, ppf
 from errdist.risk.horizon import sum_lower_tail
 
@@ -138,9 +139,15 @@ def _check_amount(amount: Any) -> NDArray[np.float64] | None:
 
 def _std_tail_mean(u: NDArray[np.float64], t: NDArray[np.float64], b: NDArray[np.float64]):
     r"""E[Y | Y <= t] for the standard law, with F(t) = u: -Γ(2/b, |t|^b) / (2 Γ(1/b) u)."""
-    z = np.abs(t) ** b
     log_ratio = sc.gammaln(2.0 / b) - sc.gammaln(1.0 / b) - math.log(2.0) - np.log(u)
-    return -np.exp(log_ratio) * sc.gammaincc(2.0 / b, z)
+    # Q(2/b, |t|^b) per shape, with the body series on z^(2/b) = t^2: |t|^b underflows for
+    # huge shapes (b > ~1000) while the tail factor does not
+    q = np.empty(np.broadcast_shapes(np.shape(t), np.shape(b)))
+    tb, bb = np.broadcast_arrays(t, b)
+    for shape_value in np.unique(bb):
+        sel = bb == shape_value
+        q[sel] = q_power(tb[sel], float(shape_value), 2.0)
+    return -np.exp(log_ratio) * q
 
 
 def _risk(*args: Any) -> tuple[NDArray[np.float64], NDArray[np.float64], bool]:
