@@ -67,6 +67,10 @@ def _law_level(name: str, pname: str, label: str) -> bool:
         "ERRDIST_VARIANCE",
         "ERRDIST_KURT",
         "ERRDIST_SOLVE_SCALE",
+        # the skewed law calls the symmetric law's quantile on each side
+        "ERRDIST_SKEW_INV",
+        "ERRDIST_SKEW_VAR",
+        "ERRDIST_SKEW_ES",
     }
     far = {"subnormal", "shape_small", "shape_large", "shape_huge"}
     if pname == "shape":  # the law's own power and gamma terms at shape 1e-300 ... 1.8e308

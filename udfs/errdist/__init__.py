@@ -100,7 +100,7 @@ def __getattr__(name: str) -> Any:
     import importlib
 
     mod = importlib.import_module(module)
-    value = mod if module.endswith("." + name) else getattr(mod, name)
+    value = mod if name == "skewed" else getattr(mod, name)  # errdist.skewed is a module
     globals()[name] = value  # later look-ups skip this function
     return value
 

@@ -20,6 +20,7 @@ import json
 import os
 import shutil
 import subprocess
+import sys
 import tempfile
 import time
 from dataclasses import dataclass, field
@@ -194,9 +195,23 @@ def recalculate(
 def _clean_env() -> dict[str, str]:
     """The environment for LibreOffice without this Python's settings: with PYTHONPATH set,
     LibreOffice's Python could not import errdist.libreoffice (measured on 7.4); the user
-    script adds the folders it needs itself."""
+    script adds the folders it needs itself. An activated virtual environment's ``bin``
+    folder is also taken off ``PATH``: LibreOffice's embedded Python finds ``python3`` there,
+    reads its ``pyvenv.cfg`` and then fails to start ("can't import __main__ module",
+    measured on 7.4 with the venv activated)."""
     drop = {"PYTHONPATH", "PYTHONHOME", "PYTHONSTARTUP", "VIRTUAL_ENV"}
-    return {k: v for k, v in os.environ.items() if k not in drop}
+    env = {k: v for k, v in os.environ.items() if k not in drop}
+    venvs = {os.environ.get("VIRTUAL_ENV", "")}
+    if sys.prefix != sys.base_prefix:
+        venvs.add(sys.prefix)
+    venvs.discard("")
+    parts = env.get("PATH", "").split(os.pathsep)
+    env["PATH"] = os.pathsep.join(
+        p
+        for p in parts
+        if not any(os.path.abspath(p).startswith(os.path.abspath(v)) for v in venvs)
+    )
+    return env
 
 
 def _stop_group(proc: subprocess.Popen[str]) -> None:

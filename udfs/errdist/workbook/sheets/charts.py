@@ -11,7 +11,7 @@ from errdist.workbook.sheets import backtest, fit_check
 from errdist.workbook.sheets.context import Context
 
 NAME = "Charts"
-PRINT = PrintSetup(landscape=False)
+PRINT = PrintSetup(landscape=False, pages_tall=2)  # five charts on two pages
 """Printed portrait, two charts a page (see :mod:`errdist.workbook.charts`)."""
 
 

@@ -17,12 +17,15 @@ from __future__ import annotations
 
 import numpy as np
 
-from errdist.workbook.layout import Plan, absref, cell
+from errdist.workbook.layout import Plan, PrintSetup, absref, cell
 from errdist.workbook.sheets.backtest import BACKTEST_FMTS
 from errdist.workbook.sheets.context import Context, call_entry
 from errdist.workbook.sheets.tables import heading, label_value_fmts
 
 NAME = "Forecasts"
+# A long data sheet: shrunk to one landscape page when printed; its numbers are read on
+# screen (the Backtest sheet prints the models side by side).
+PRINT = PrintSetup(landscape=True, pages_tall=1, repeat_header=False)
 
 MODELS: tuple[tuple[str, str], ...] = (
     ("symmetric", "Error law (symmetric), rolling fit"),

@@ -8,12 +8,13 @@ opens. The prose lives in :mod:`errdist.workbook.guide_text`.
 from __future__ import annotations
 
 from errdist.workbook import guide_text
-from errdist.workbook.layout import Plan
+from errdist.workbook.layout import Plan, PrintSetup
 from errdist.workbook.sheets.context import VOLATILE_CELLS, Context
 from errdist.workbook.sheets.tables import heading
 from errdist.workbook.summary import SHAPE_GAP_MARGIN
 
 NAME = "Guide"
+PRINT = PrintSetup(pages_tall=1)  # the guide and its cautions on one page
 LAYOUT_LAST = True
 """Laid out once every other sheet has published its key cells."""
 

@@ -14,12 +14,13 @@ in ``ctx.keys``.
 
 from __future__ import annotations
 
-from errdist.workbook.layout import Plan, absref, cell
+from errdist.workbook.layout import Plan, PrintSetup, absref, cell
 from errdist.workbook.sheets.backtest import verdict_ref
 from errdist.workbook.sheets.context import Context
 from errdist.workbook.sheets.tables import heading
 
 NAME = "Models"
+PRINT = PrintSetup(landscape=True, pages_tall=1)
 
 COND_MODEL = "gjr"
 """The conditional model of today's figures on the Risk sheet (an input cell)."""
