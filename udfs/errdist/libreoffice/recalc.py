@@ -20,7 +20,6 @@ import json
 import os
 import shutil
 import subprocess
-import sys
 import tempfile
 import time
 from dataclasses import dataclass, field
@@ -195,22 +194,23 @@ def recalculate(
 def _clean_env() -> dict[str, str]:
     """The environment for LibreOffice without this Python's settings: with PYTHONPATH set,
     LibreOffice's Python could not import errdist.libreoffice (measured on 7.4); the user
-    script adds the folders it needs itself. An activated virtual environment's ``bin``
-    folder is also taken off ``PATH``: LibreOffice's embedded Python finds ``python3`` there,
-    reads its ``pyvenv.cfg`` and then fails to start ("can't import __main__ module",
-    measured on 7.4 with the venv activated)."""
-    drop = {"PYTHONPATH", "PYTHONHOME", "PYTHONSTARTUP", "VIRTUAL_ENV"}
-    env = {k: v for k, v in os.environ.items() if k not in drop}
-    venvs = {os.environ.get("VIRTUAL_ENV", "")}
-    if sys.prefix != sys.base_prefix:
-        venvs.add(sys.prefix)
-    venvs.discard("")
-    parts = env.get("PATH", "").split(os.pathsep)
-    env["PATH"] = os.pathsep.join(
-        p
-        for p in parts
-        if not any(os.path.abspath(p).startswith(os.path.abspath(v)) for v in venvs)
-    )
+    script adds the folders it needs itself. The environment is built from a short list of
+    names (home, user, locale, temporary folders) and the system's PATH: with a virtual
+    environment's or pyenv's ``python3`` on PATH, LibreOffice's embedded Python failed to start
+    ("can't import __main__ module", measured on 7.4)."""
+    keep = ("HOME", "USER", "LOGNAME", "LANG", "LANGUAGE", "TMPDIR", "TMP", "TEMP", "TZ")
+    env = {
+        k: v
+        for k, v in os.environ.items()
+        if k in keep or k.startswith(("LC_", "XDG_", "SAL_", "SOFFICE", "ERRDIST_"))
+    }
+    # Only the system's folders on PATH (plus soffice's own): an activated or pyenv Python
+    # found there makes LibreOffice's embedded Python fail to start.
+    system = ["/usr/local/bin", "/usr/bin", "/bin", "/usr/local/sbin", "/usr/sbin", "/sbin"]
+    soffice = shutil.which("soffice")
+    if soffice:
+        system.insert(0, os.path.dirname(os.path.realpath(soffice)))
+    env["PATH"] = os.pathsep.join(dict.fromkeys(system))
     return env
 
 
