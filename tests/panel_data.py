@@ -1,7 +1,7 @@
 """Panels for the panel tests: invented series (simulated, seeded) and real index series.
 
 The invented series are draws of the error law with made-up parameters; the real ones are the
-S&P 500 and NASDAQ Composite closes that the ``arch`` package ships (``arch.data``).
+index 2 and index 1 closes that the ``arch`` package ships (``arch.data``).
 """
 
 from __future__ import annotations
@@ -28,14 +28,14 @@ def simulated_wide(n_series: int = 4, n_prices: int = 320, seed: int = 7) -> pd.
 
 
 def real_wide(n_prices: int = 600) -> pd.DataFrame:
-    """The last ``n_prices`` common closes of the S&P 500 and NASDAQ Composite (arch.data)."""
-    from arch.data import nasdaq, sp500
+    """The last ``n_prices`` common closes of the index 2 and index 1 (arch.data)."""
+    from real_series import index as real_index
 
-    a = sp500.load()["Adj Close"].rename("SP500")
-    b = nasdaq.load()["Adj Close"].rename("NASDAQ")
+    a = real_index(2).load()["Adj Close"].rename("INDEX2")
+    b = real_index(1).load()["Adj Close"].rename("INDEX1")
     both = pd.concat([a, b], axis=1).dropna().iloc[-n_prices:]
     frame = both.reset_index()
-    frame.columns = ["date", "SP500", "NASDAQ"]
+    frame.columns = ["date", "INDEX2", "INDEX1"]
     frame["date"] = pd.to_datetime(frame["date"]).dt.strftime("%Y-%m-%d")
     return frame
 

@@ -1,7 +1,7 @@
 """Rolling one-day VaR forecasts: alignment, no look-ahead, blanks, and outside checks.
 
 References: scipy.stats.gennorm (generic maximum-likelihood fit and quantile) on a real daily
-index series shipped with arch (`arch.data.nasdaq.load()`, NASDAQ Composite 1999-2018).
+index series shipped with arch (`real_series.index(1).load()`, index 1 1999-2018).
 """
 
 from __future__ import annotations
@@ -17,6 +17,7 @@ from errdist.checks.rolling import rolling_var
 from errdist.errors import DomainError, InputTypeError, InsufficientDataError
 from errdist.estimate import fit
 from errdist.risk import value_at_risk
+from real_series import index as real_index
 
 
 def _returns(n: int = 400, seed: int = 7) -> np.ndarray:
@@ -76,12 +77,11 @@ def test_moments_method_uses_spreadsheet_fit() -> None:
     assert out[160] == pytest.approx(value_at_risk(0.95, f.loc, f.scale, f.shape), rel=1e-12)
 
 
-def test_rolling_mle_matches_scipy_on_nasdaq() -> None:
+def test_rolling_mle_matches_scipy_on_index1() -> None:
     # Reference: scipy.stats.gennorm.fit (generic optimiser; its own MLE) and gennorm.ppf on
-    # NASDAQ log returns from arch.data.nasdaq. The generic optimiser stops near the maximum,
+    # index 1 log returns from `arch.data` index 1. The generic optimiser stops near the maximum,
     # so agreement is to ~1e-3 relative, and our log-likelihood must be at least scipy's.
-    nasdaq = pytest.importorskip("arch.data.nasdaq", reason="arch not installed")
-    prices = nasdaq.load()["Adj Close"].to_numpy()
+    prices = real_index(1).load()["Adj Close"].to_numpy()
     r = np.diff(np.log(prices))[-400:]
     w = 250
     out = rolling_var(r, w, 0.99)

@@ -2,7 +2,7 @@
 
 References: the RiskMetrics Technical Document (J.P. Morgan/Reuters 1996, eq. 5.3) recursion
 worked by hand; arch's EWMAVariance recursion; arch's own GJR-GARCH estimation; the closed-form
-VaR/ES of errdist.law.skewed; arch.data sp500 (S&P 500 1999-2018, shipped with arch).
+VaR/ES of errdist.law.skewed; arch.data index 2 (index 2 1999-2018, shipped with arch).
 """
 
 from __future__ import annotations
@@ -25,10 +25,10 @@ from errdist.risk.conditional import (
 arch = pytest.importorskip("arch", reason="the arch package is not installed")
 
 
-def _sp500() -> np.ndarray:
-    from arch.data import sp500
+def _index2() -> np.ndarray:
+    from real_series import index as real_index
 
-    return np.diff(np.log(sp500.load()["Adj Close"].to_numpy()))
+    return np.diff(np.log(real_index(2).load()["Adj Close"].to_numpy()))
 
 
 def test_ewma_hand_example() -> None:
@@ -48,7 +48,7 @@ def test_ewma_matches_arch_recursion() -> None:
     # Reference: arch.univariate.EWMAVariance.compute_variance with the same starting value.
     from arch.univariate import EWMAVariance
 
-    r = _sp500()[:2000]
+    r = _index2()[:2000]
     ours = ewma_variance(r, 0.97)
     resid = r[EWMA_SEED_DAYS:]
     sigma2 = np.empty(resid.size)
@@ -58,14 +58,14 @@ def test_ewma_matches_arch_recursion() -> None:
     np.testing.assert_allclose(ours[EWMA_SEED_DAYS:-1], sigma2, rtol=1e-12)
 
 
-def test_fit_gjr_on_sp500_matches_arch_and_closed_form() -> None:
+def test_fit_gjr_on_index2_matches_arch_and_closed_form() -> None:
     # Reference: the same model estimated by arch directly (on percent returns); VaR/ES from
     # errdist.law.skewed's closed forms at the standardized law's loc/scale.
     from arch.univariate import GARCH, ConstantMean
 
     from errdist.risk.arch_law import SkewedErrorInnovations
 
-    r = _sp500()
+    r = _index2()
     f = fit_gjr(r, 0.99)
     ref = ConstantMean(100 * r, volatility=GARCH(1, 1, 1), distribution=SkewedErrorInnovations())
     res = ref.fit(disp="off")
@@ -87,7 +87,7 @@ def test_fit_gjr_on_sp500_matches_arch_and_closed_form() -> None:
 
 
 def test_fit_garch_special_case_and_zero_mean() -> None:
-    r = _sp500()[-1500:]
+    r = _index2()[-1500:]
     f = fit_gjr(r, 0.975, asymmetric=False, mean="zero")
     assert f.model == "garch"
     assert "gamma" not in f.param_names and "mu" not in f.param_names
@@ -96,7 +96,7 @@ def test_fit_garch_special_case_and_zero_mean() -> None:
 
 
 def test_fit_ewma_figures() -> None:
-    r = _sp500()
+    r = _index2()
     f = fit_ewma(r, 0.99, lam=0.94)
     s2 = ewma_variance(r, 0.94)
     z_mean, z_std = f.params[1], f.params[2]
@@ -110,7 +110,7 @@ def test_fit_ewma_figures() -> None:
 
 
 def test_blanks_dropped_and_bad_input_messages() -> None:
-    r = list(_sp500()[:400])
+    r = list(_index2()[:400])
     r[10] = None
     x, dropped = clean_returns(r)
     assert dropped == 1 and x.size == 399
@@ -121,11 +121,11 @@ def test_blanks_dropped_and_bad_input_messages() -> None:
     with pytest.raises(InsufficientDataError, match="at least 250"):
         fit_ewma([0.01, -0.01] * 50)
     with pytest.raises(DomainError, match="lambda"):
-        fit_ewma(_sp500()[:400], lam=1.2)
+        fit_ewma(_index2()[:400], lam=1.2)
     with pytest.raises(DomainError, match="confidence"):
-        fit_gjr(_sp500()[:400], confidence=99)
+        fit_gjr(_index2()[:400], confidence=99)
     with pytest.raises(InputTypeError, match="mean"):
-        fit_gjr(_sp500()[:400], mean="ar1")
+        fit_gjr(_index2()[:400], mean="ar1")
 
 
 def test_convergence_problems_are_reported_not_hidden() -> None:

@@ -3,7 +3,7 @@ real-series coverage check.
 
 References: errdist.checks.rolling.rolling_var (the existing symmetric rolling forecasts, themselves
 checked against scipy.stats.gennorm); errdist.law.skewed.fit_skewed (the exact skewed MLE);
-arch.data sp500 (S&P 500 daily closes 1999-2018, shipped with arch).
+arch.data index 2 (index 2 daily closes 1999-2018, shipped with arch).
 """
 
 from __future__ import annotations
@@ -20,10 +20,10 @@ from errdist.risk.forecasts import rolling_forecasts
 arch = pytest.importorskip("arch", reason="the arch package is not installed")
 
 
-def _sp500() -> np.ndarray:
-    from arch.data import sp500
+def _index2() -> np.ndarray:
+    from real_series import index as real_index
 
-    return np.diff(np.log(sp500.load()["Adj Close"].to_numpy()))
+    return np.diff(np.log(real_index(2).load()["Adj Close"].to_numpy()))
 
 
 def _garchy(n: int = 700, seed: int = 4) -> np.ndarray:
@@ -56,7 +56,7 @@ def test_no_look_ahead(model: str) -> None:
 
 def test_symmetric_model_is_rolling_var() -> None:
     # Reference: errdist.checks.rolling.rolling_var, today's symmetric rolling forecasts.
-    r = _sp500()[:900]
+    r = _index2()[:900]
     path = rolling_forecasts(r, "symmetric", 0.99, window=250, fit_window=250)
     ref = rolling_var(r, 250, 0.99)
     np.testing.assert_allclose(path.var[250:], ref[250:], rtol=1e-12)
@@ -65,10 +65,10 @@ def test_symmetric_model_is_rolling_var() -> None:
 
 def test_warm_started_fit_reaches_exact_skewed_mle() -> None:
     # Reference: the exact search of errdist.law.skewed.fit_skewed (maximum likelihood with
-    # no start point, itself tested against mpmath in test_skewed_fit.py) on arch.data sp500.
+    # no start point, itself tested against mpmath in test_skewed_fit.py) on arch.data index 2.
     from errdist.law import skewed as sk
 
-    r = _sp500()
+    r = _index2()
     prev = None
     for t0 in range(1000, 1000 + 21 * 6, 21):
         x = r[t0 - 250 : t0]
@@ -109,11 +109,11 @@ def test_bad_input() -> None:
 
 
 @pytest.mark.slow
-def test_sp500_gjr_skewed_passes_coverage_on_recent_slice() -> None:
-    # arch.data sp500: the last 2,500 returns (to 2018-12-31), 1,500 one-day 99 % forecasts,
+def test_index2_gjr_skewed_passes_coverage_on_recent_slice() -> None:
+    # arch.data index 2: the last 2,500 returns (to 2018-12-31), 1,500 one-day 99 % forecasts,
     # GJR-GARCH + skewed error law refitted every 21 days on 1,000 days. The full 4,000-day
     # run is in tests/benchmarks/bench_backtest_models.py.
-    r = _sp500()[-2500:]
+    r = _index2()[-2500:]
     p = rolling_forecasts(r, "gjr", 0.99, fit_window=1000, refit=21)
     bt = backtest(r[p.first :], p.var[p.first :], 0.99)
     assert bt.n == 1500

@@ -15,6 +15,7 @@ from scipy import stats
 
 from errdist.errors import DomainError
 from errdist.risk import expected_shortfall, horizon, value_at_risk
+from real_series import index as real_index
 
 
 @pytest.mark.parametrize("u", [1e-6, 1e-8, 1e-9])
@@ -72,8 +73,7 @@ def test_prices_row_limit_names_the_variable(tmp_path, monkeypatch: pytest.Monke
     from errdist.data.prices_io import read_prices
     from errdist.errors import InputTypeError
 
-    sp500 = pytest.importorskip("arch.data.sp500")  # real closes (arch.data)
-    s = sp500.load()["Adj Close"].iloc[-200:]
+    s = real_index(2).load()["Adj Close"].iloc[-200:]
     p = tmp_path / "p.csv"
     p.write_text("date,price\n" + "".join(f"{d:%Y-%m-%d},{v!r}\n" for d, v in s.items()))
     monkeypatch.setenv("ERRDIST_MAX_PRICE_ROWS", "150")

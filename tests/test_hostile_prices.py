@@ -1,7 +1,7 @@
 """Odd prices files: clear messages naming the row or the fix, never a raw library error.
 
 Each case reproduced a traceback or a misleading message before (issue 12). Prices come from
-the S&P 500 closes shipped with the arch package (arch.data.sp500), altered per case.
+the index 2 closes shipped with the arch package (`arch.data` index 2), altered per case.
 """
 
 from __future__ import annotations
@@ -12,13 +12,14 @@ import pytest
 
 from errdist.data.prices_io import read_prices
 from errdist.errors import DomainError, InputTypeError
+from real_series import index as real_index
 
-sp500 = pytest.importorskip("arch.data.sp500")
+index2 = real_index(2)
 
 
 @pytest.fixture(scope="module")
 def closes() -> list[tuple[str, float]]:
-    s = sp500.load()["Adj Close"].iloc[-300:]
+    s = real_index(2).load()["Adj Close"].iloc[-300:]
     return [(f"{d:%Y-%m-%d}", float(v)) for d, v in s.items()]
 
 

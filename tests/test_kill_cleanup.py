@@ -18,6 +18,8 @@ from pathlib import Path
 
 import pytest
 
+from real_series import index as real_index
+
 pytest.importorskip("formulas", reason="formulas not installed")
 pytest.importorskip("xlsxwriter", reason="XlsxWriter not installed")
 
@@ -26,9 +28,8 @@ TEMPLATE = ROOT / "workbook_template" / "errdist-monthly-risk.xlsx"
 
 
 def _prices_csv(path: Path) -> Path:
-    # Real data: the S&P 500 closes shipped with the arch package (arch.data.sp500).
-    sp500 = pytest.importorskip("arch.data.sp500")
-    closes = sp500.load()["Adj Close"].iloc[-800:]
+    # Real data: the index 2 closes shipped with the arch package (`arch.data` index 2).
+    closes = real_index(2).load()["Adj Close"].iloc[-800:]
     lines = ["date,price"] + [f"{d:%Y-%m-%d},{v!r}" for d, v in closes.items()]
     path.write_text("\n".join(lines) + "\n")
     return path
@@ -74,20 +75,20 @@ def dirs(tmp_path: Path) -> tuple[Path, Path]:
 
 def test_refresh_sigterm_cleans_up(dirs: tuple[Path, Path]) -> None:
     tmpdir, out = dirs
-    prices = _prices_csv(out / "sp500.csv")
+    prices = _prices_csv(out / "index2.csv")
     proc = _start(["refresh", "--prices", str(prices), "--out", str(out / "m.xlsx")], tmpdir)
     _wait_for_run_folder(tmpdir, proc)
     proc.send_signal(signal.SIGTERM)
     _, err = proc.communicate(timeout=60)
     assert proc.returncode == 143, err
     assert "terminated; nothing written" in err and "Traceback" not in err
-    assert sorted(p.name for p in out.iterdir()) == ["sp500.csv"]  # no m.xlsx, no .tmp
+    assert sorted(p.name for p in out.iterdir()) == ["index2.csv"]  # no m.xlsx, no .tmp
     assert list(tmpdir.iterdir()) == []
 
 
 def test_refresh_sigkill_leftovers_removed_by_next_run(dirs: tuple[Path, Path]) -> None:
     tmpdir, out = dirs
-    prices = _prices_csv(out / "sp500.csv")
+    prices = _prices_csv(out / "index2.csv")
     proc = _start(["refresh", "--prices", str(prices), "--out", str(out / "m.xlsx")], tmpdir)
     _wait_for_run_folder(tmpdir, proc)
     proc.kill()
@@ -102,7 +103,7 @@ def test_refresh_sigkill_leftovers_removed_by_next_run(dirs: tuple[Path, Path]) 
     nxt.communicate(timeout=120)
     assert nxt.returncode == 0
     assert _leftovers(tmpdir, out) == []
-    assert sorted(p.name for p in out.iterdir()) == ["m.bas", "sp500.csv"]
+    assert sorted(p.name for p in out.iterdir()) == ["index2.csv", "m.bas"]
 
 
 @pytest.mark.parametrize("sig", [signal.SIGTERM, signal.SIGKILL])

@@ -11,6 +11,7 @@ from scipy.special import gamma
 
 from errdist.errors import DomainError, InputTypeError, InsufficientDataError
 from errdist.estimate import SHAPE_MAX, SHAPE_MIN, Fit, fit, loglik, solve_shape
+from real_series import index as real_index
 
 
 def _sample(shape: float, n: int, seed: int) -> np.ndarray:
@@ -61,10 +62,9 @@ def test_mle_beats_scipy(shape: float, seed: int) -> None:
     assert not f.at_bound and f.warning == ""
 
 
-def test_nasdaq_daily_returns() -> None:
-    nasdaq = pytest.importorskip("arch.data.nasdaq", reason="arch not installed")
+def test_index1_daily_returns() -> None:
     # Real data: the daily index series shipped with arch (1999-2018), daily log returns
-    prices = nasdaq.load()["Adj Close"].to_numpy(dtype=float)
+    prices = real_index(1).load()["Adj Close"].to_numpy(dtype=float)
     r = np.diff(np.log(prices))
     f = fit(r)
     b, m, a = stats.gennorm.fit(r)  # Reference: scipy.stats.gennorm.fit

@@ -1,6 +1,6 @@
 """ERRDIST_PANEL: one row per column of a block of returns.
 
-Real data: S&P 500 and NASDAQ Composite daily closes shipped in ``arch`` (``arch.data``).
+Real data: index 2 and index 1 daily closes shipped in ``arch`` (``arch.data``).
 """
 
 from __future__ import annotations
@@ -16,7 +16,7 @@ from panel_data import real_wide
 
 def _block() -> np.ndarray:
     w = real_wide(400)
-    r = np.diff(np.log(w[["SP500", "NASDAQ"]].to_numpy(dtype=float)), axis=0)
+    r = np.diff(np.log(w[["INDEX2", "INDEX1"]].to_numpy(dtype=float)), axis=0)
     r[:25, 1] = np.nan  # the second series starts later: blank cells are skipped
     return r
 

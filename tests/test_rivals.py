@@ -19,13 +19,13 @@ from errdist.checks.rivals import (
     fit_student_t,
 )
 from errdist.errors import InputTypeError, InsufficientDataError
+from real_series import index as real_index
 
 
-def _nasdaq_returns() -> np.ndarray:
+def _index1_returns() -> np.ndarray:
     # Real daily index series shipped inside the arch package (offline), log returns of the
     # adjusted close.
-    nasdaq = pytest.importorskip("arch.data.nasdaq", reason="arch not installed")
-    prices = nasdaq.load()["Adj Close"].to_numpy(dtype=float)
+    prices = real_index(1).load()["Adj Close"].to_numpy(dtype=float)
     return np.diff(np.log(prices))
 
 
@@ -41,8 +41,8 @@ def _samples() -> dict[str, np.ndarray]:
 
 
 def _datasets() -> list[tuple[str, np.ndarray]]:
-    r = _nasdaq_returns()
-    return [("nasdaq", r), ("nasdaq_last_1260", r[-1260:]), *_samples().items()]
+    r = _index1_returns()
+    return [("index1", r), ("index1_last_1260", r[-1260:]), *_samples().items()]
 
 
 DATASETS = _datasets()
@@ -141,7 +141,7 @@ def test_compare_table_against_scipy(name: str, x: np.ndarray) -> None:
 def test_compare_prefers_heavy_tails_on_the_index_series() -> None:
     # Daily index returns are heavy-tailed (common practice, no source): the normal law
     # must not win; by AIC the normal is worse than the t law fitted by scipy.stats.t.fit.
-    x = _nasdaq_returns()
+    x = _index1_returns()
     table = compare(x).set_index("law")
     assert table["aic"].idxmin() != "normal"
     ll_t_scipy = stats.t.logpdf(x, *stats.t.fit(x)).sum()

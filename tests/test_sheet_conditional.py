@@ -5,7 +5,7 @@ scipy.stats.laplace_asymmetric (the skewed law at shape 1), scipy.stats.gennorm 
 the two-piece law), the arch package (GJR-GARCH with its own skew-t law), the published
 recursions (GJR: Glosten, Jagannathan & Runkle 1993; EWMA: RiskMetrics Technical Document
 1996, eq. 5.3) and the Acerbi & Szekely (2014) Z2 formula computed by hand. Data: arch.data
-sp500 (S&P 500 daily, shipped with arch).
+index2 (index 2 daily, shipped with arch).
 """
 
 from __future__ import annotations
@@ -27,10 +27,10 @@ def xl() -> Any:
         yield r
 
 
-def _sp500(n: int) -> np.ndarray:
-    from arch.data import sp500
+def _index2(n: int) -> np.ndarray:
+    from real_series import index as real_index
 
-    p = sp500.load()["Adj Close"].to_numpy()
+    p = real_index(2).load()["Adj Close"].to_numpy()
     return np.diff(np.log(p))[-n:]
 
 
@@ -86,7 +86,7 @@ def test_skew_functions_at_skew_0_are_the_symmetric_ones(xl: Any) -> None:
 
 
 def test_skew_fit_row_matches_core_and_scipy_likelihood(xl: Any) -> None:
-    r = _sp500(750)
+    r = _index2(750)
     got = xl.cells("ERRDIST_SKEW_FIT", h.column(list(r)), True)
     assert got[0] == [
         "loc",
@@ -134,7 +134,7 @@ def test_skew_fit_row_matches_core_and_scipy_likelihood(xl: Any) -> None:
 def test_cond_gjr_cells_match_core_arch_and_the_gjr_recursion(xl: Any) -> None:
     from errdist.risk.conditional import fit_gjr
 
-    r = _sp500(2000)
+    r = _index2(2000)
     col = h.column(list(r))
     table = xl.cells("ERRDIST_COND_PARAMS", col, "gjr", 0.99, h.Missing(), True)
     rows = {row[0]: row[1:] for row in table[1:]}
@@ -178,7 +178,7 @@ def test_cond_gjr_cells_match_core_arch_and_the_gjr_recursion(xl: Any) -> None:
 
 
 def test_cond_ewma_cells_match_the_riskmetrics_recursion(xl: Any) -> None:
-    r = _sp500(1200)
+    r = _index2(1200)
     col = h.column(list(r))
     table = {row[0]: row[1:] for row in xl.cells("ERRDIST_COND_PARAMS", col, "ewma", 0.99, 0.97)}
     assert table["lambda"] == [0.97, "set by the user"]
@@ -193,9 +193,9 @@ def test_cond_ewma_cells_match_the_riskmetrics_recursion(xl: Any) -> None:
 
 
 def test_cond_bad_inputs_are_coded(xl: Any) -> None:
-    short = h.column(list(_sp500(100)))
+    short = h.column(list(_index2(100)))
     assert xl.cells("ERRDIST_COND_VAR", short, 0.99)[0][0].startswith("#N/A ")
-    col = h.column(list(_sp500(300)))
+    col = h.column(list(_index2(300)))
     assert xl.cells("ERRDIST_COND_VAR", col, 0.3)[0][0].startswith("#NUM! confidence")
     assert xl.cells("ERRDIST_COND_VAR", col, 0.99, "arima")[0][0].startswith("#VALUE! ")
     assert xl.cells("ERRDIST_COND_ES", col, 0.99, "ewma", 1.5)[0][0].startswith("#NUM! lambda")
@@ -207,7 +207,7 @@ def test_cond_bad_inputs_are_coded(xl: Any) -> None:
 def test_forecasts_align_with_returns_and_do_not_look_ahead(xl: Any) -> None:
     from errdist.risk.forecasts import rolling_forecasts
 
-    r = _sp500(400)
+    r = _index2(400)
     cells = xl.cells("ERRDIST_FORECASTS", h.column(list(r)), "ewma", 0.99, 250, 300, 21)
     assert len(cells) == 400 and all(len(row) == 6 for row in cells)
     assert all(v is None for row in cells[:300] for v in row)

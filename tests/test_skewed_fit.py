@@ -1,6 +1,6 @@
 """Maximum-likelihood fit of the skewed error law (errdist.law.skewed.fit_skewed).
 
-References: real daily returns shipped with the `arch` package (arch.data sp500, nasdaq;
+References: real daily returns shipped with the `arch` package (arch.data index 2, index1;
 log returns of the adjusted close), scipy.optimize (multi-start Nelder-Mead on the
 log-likelihood written out here from the density's formula), a brute-force grid, and
 scipy.stats.laplace_asymmetric (the shape-1 case) for simulated data.
@@ -18,18 +18,13 @@ from scipy.special import gammaln
 import errdist
 from errdist.errors import DomainError, InputTypeError, InsufficientDataError
 from errdist.law import skewed as K
+from real_series import log_returns
 
 arch_data = pytest.importorskip("arch.data", reason="the arch package ships the real series")
 
 
-def _returns(name: str) -> np.ndarray:
-    mod = getattr(__import__("arch.data", fromlist=[name]), name)
-    prices = mod.load()["Adj Close"].to_numpy()
-    return np.diff(np.log(prices))
-
-
-SP500 = _returns("sp500")
-NASDAQ = _returns("nasdaq")
+INDEX2 = log_returns(2)
+INDEX1 = log_returns(1)
 
 
 def loglik_ref(x: np.ndarray, m: float, a: float, b: float, lam: float) -> float:
@@ -85,11 +80,11 @@ def grid_max(x: np.ndarray) -> float:
 
 
 WINDOWS = {
-    "sp500 last 250": SP500[-250:],
-    "sp500 days 2000-2250": SP500[2000:2250],
-    "nasdaq days 3000-3250": NASDAQ[3000:3250],
-    "sp500 last 1000": SP500[-1000:],
-    "sp500 first 1000": SP500[:1000],
+    "index2 last 250": INDEX2[-250:],
+    "index2 days 2000-2250": INDEX2[2000:2250],
+    "index1 days 3000-3250": INDEX1[3000:3250],
+    "index2 last 1000": INDEX2[-1000:],
+    "index2 first 1000": INDEX2[:1000],
 }
 
 
@@ -113,7 +108,7 @@ def test_loglik_at_least_scipy_multistart_and_grid(name: str) -> None:
     assert f.loglik >= errdist.fit(x).loglik - 1e-9
 
 
-@pytest.mark.parametrize("name", ["sp500 last 250", "nasdaq days 3000-3250"])
+@pytest.mark.parametrize("name", ["index2 last 250", "index1 days 3000-3250"])
 def test_score_is_zero_at_the_fit(name: str) -> None:
     # Source: mpmath (30 digits) numerical derivatives of the log-likelihood written out from
     # the density, at the fitted location: the scale, shape and skew scores vanish (to what
@@ -144,7 +139,7 @@ def test_score_is_zero_at_the_fit(name: str) -> None:
 
 
 def test_result_independent_of_order_and_equivariant() -> None:
-    x = SP500[-500:]
+    x = INDEX2[-500:]
     f = K.fit_skewed(x)
     rng = np.random.default_rng(3)
     for y in (x[::-1], rng.permutation(x), x.reshape(20, 25)):
@@ -168,7 +163,7 @@ def test_result_independent_of_order_and_equivariant() -> None:
 def test_real_index_returns_are_left_skewed() -> None:
     # the loss tail of stock indices is the heavier one (common practice, no source):
     # over the full arch.data samples the fitted skew is negative
-    for x in (SP500, NASDAQ):
+    for x in (INDEX2, INDEX1):
         f = K.fit_skewed(x)
         assert f.skew < 0.0
         assert 0.6 < f.shape < 1.2
@@ -206,7 +201,7 @@ def test_two_piece_normal_data_give_shape_near_two() -> None:
 
 def test_many_equal_returns() -> None:
     # returns rounded to 0.1% (many ties, many exact zeros) as from a thinly traded series
-    x = np.round(SP500[-250:], 3)
+    x = np.round(INDEX2[-250:], 3)
     assert np.count_nonzero(x == 0.0) >= 15
     f = K.fit_skewed(x)
     assert f.loglik >= scipy_multistart(x) - 1e-8
@@ -239,10 +234,10 @@ def test_bad_data() -> None:
 
 def test_local_method_from_a_start_and_mean_std() -> None:
     # Reference: the exact search (no start point) and scipy.integrate.quad of the fitted
-    # density for the mean and standard deviation; data: arch.data nasdaq.
+    # density for the mean and standard deviation; data: arch.data index 1.
     from scipy import integrate
 
-    r = NASDAQ
+    r = INDEX1
     x0, x1 = r[2000:2500], r[2010:2510]  # two windows ten days apart, as in a rolling refit
     prev = K.fit_skewed(x0)
     local = K.fit_skewed(x1, start=prev, method="local")

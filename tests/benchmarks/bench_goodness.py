@@ -1,7 +1,7 @@
 """Benchmark: bootstrap goodness of fit against scipy.stats.goodness_of_fit (gennorm).
 
 Data: the last 1,260 daily log returns of the real index series shipped in the arch package
-(``arch.data.nasdaq.load()``, adjusted close). Both tools compute the Anderson–Darling
+(``real_series.index(1).load()``, adjusted close). Both tools compute the Anderson–Darling
 statistic and a parametric-bootstrap p-value that refits every simulated sample by maximum
 likelihood (scipy: ``gennorm.fit``; errdist: its exact MLE).
 
@@ -17,11 +17,14 @@ from __future__ import annotations
 import platform
 import sys
 import time
+from pathlib import Path
 
 import numpy as np
 from scipy import stats
 
 from errdist.checks.goodness import goodness_of_fit
+
+sys.path.insert(0, str(Path(__file__).resolve().parents[1]))  # tests/: real_series
 
 SAMPLES = 999
 SCIPY_SAMPLES = 49
@@ -29,9 +32,9 @@ N = 1260
 
 
 def _returns() -> np.ndarray:
-    from arch.data import nasdaq
+    from real_series import index as real_index
 
-    prices = nasdaq.load()["Adj Close"].to_numpy(dtype=float)
+    prices = real_index(1).load()["Adj Close"].to_numpy(dtype=float)
     return np.diff(np.log(prices))[-N:]
 
 

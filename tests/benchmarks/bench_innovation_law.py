@@ -4,7 +4,7 @@
    ``errdist.risk.innovation_law`` and ``errdist.law.skewed``) against
    ``arch.univariate.GeneralizedError.loglikelihood`` (the symmetric law, the same work per
    element), side by side on standardized residuals of n = 1,000 and 5,000, and in whole
-   GJR-GARCH(1,1) fits on arch.data sp500 / nasdaq windows of 1,000 returns (CPU time).
+   GJR-GARCH(1,1) fits on arch.data index 2 / index 1 windows of 1,000 returns (CPU time).
 2. Rolling refits of the skewed law: ``fit_skewed(..., start=previous, method="local")`` against
    the exact search ``fit_skewed(...)`` on 30 windows 21 days apart (250 and 1,000 returns),
    with the local search's largest log-likelihood shortfall.
@@ -14,15 +14,19 @@ Run: python tests/benchmarks/bench_innovation_law.py
 
 from __future__ import annotations
 
+import sys
 import time
 import timeit
+from pathlib import Path
 
 import numpy as np
-from arch.data import nasdaq, sp500
 from arch.univariate import GARCH, ConstantMean, GeneralizedError
 
 from errdist.law.skewed import fit_skewed
 from errdist.risk.arch_law import SkewedErrorInnovations
+
+sys.path.insert(0, str(Path(__file__).resolve().parents[1]))  # tests/: real_series
+from real_series import index as real_index  # noqa: E402
 
 
 def _returns(mod) -> np.ndarray:  # type: ignore[no-untyped-def]
@@ -53,7 +57,7 @@ def _loglik_calls() -> None:
 
 
 def _gjr_fits() -> None:
-    for name, mod in (("sp500", sp500), ("nasdaq", nasdaq)):
+    for name, mod in (("index2", real_index(2)), ("index1", real_index(1))):
         r = 100.0 * _returns(mod)
         best = {"errdist": np.inf, "arch": np.inf}
         for _ in range(3):
@@ -73,7 +77,7 @@ def _gjr_fits() -> None:
 
 
 def _rolling_fits() -> None:
-    for name, mod in (("sp500", sp500), ("nasdaq", nasdaq)):
+    for name, mod in (("index2", real_index(2)), ("index1", real_index(1))):
         r = _returns(mod)
         for w in (250, 1000):
             prev, t_local, t_exact, short = None, 0.0, 0.0, 0.0

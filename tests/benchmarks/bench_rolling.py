@@ -2,8 +2,8 @@
 
 Target: rolling 250-day MLE fits at <= 0.2 ms per window on real data (1,000 windows). Reference measured side by side
 in the same run: scipy.stats.gennorm.fit (scipy's generic maximum-likelihood optimiser) on the
-first windows of the same series, extrapolated per fit. Data: NASDAQ Composite log returns
-shipped with arch (``arch.data.nasdaq.load()``) when available, else an invented seeded
+first windows of the same series, extrapolated per fit. Data: index 1 log returns
+shipped with arch (``real_series.index(1).load()``) when available, else an invented seeded
 Student-t series.
 
 Also times value_at_risk(..., horizon=10, horizon_rule="iid") (target <= 50 ms per call, cold
@@ -14,7 +14,9 @@ Run: python tests/benchmarks/bench_rolling.py
 
 from __future__ import annotations
 
+import sys
 import time
+from pathlib import Path
 
 import numpy as np
 from scipy import stats
@@ -23,6 +25,8 @@ from errdist.checks.rolling import rolling_var
 from errdist.risk import value_at_risk
 from errdist.risk.horizon import _CACHE
 
+sys.path.insert(0, str(Path(__file__).resolve().parents[1]))  # tests/: real_series
+
 WINDOW = 250
 FITS = 1000
 SCIPY_FITS = 20
@@ -30,10 +34,10 @@ SCIPY_FITS = 20
 
 def _series() -> tuple[np.ndarray, str]:
     try:
-        from arch.data import nasdaq
+        from real_series import index as real_index
 
-        prices = nasdaq.load()["Adj Close"].to_numpy()
-        return np.diff(np.log(prices))[-(WINDOW + FITS) :], "NASDAQ log returns (arch.data)"
+        prices = real_index(1).load()["Adj Close"].to_numpy()
+        return np.diff(np.log(prices))[-(WINDOW + FITS) :], "index 1 log returns (arch.data)"
     except ImportError:
         rng = np.random.default_rng(20261202)
         return 0.01 * stats.t.rvs(4, size=WINDOW + FITS, random_state=rng), "seeded Student t(4)"

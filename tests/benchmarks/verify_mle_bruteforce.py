@@ -1,7 +1,7 @@
 """Verification: the exact MLE against a brute-force search on real rolling windows.
 
 For every rolling window of the daily log returns of the index series shipped with ``arch``
-(``arch.data.sp500`` and ``arch.data.nasdaq``, adjusted close) the fit of
+(`arch.data` index 2 and `arch.data` index 1, adjusted close) the fit of
 ``errdist.estimate.mle._mle_sorted`` (the engine of ``errdist.fit``) is compared with the
 brute-force search of ``tests/mle_bruteforce.py`` (every observation as location for b ≤ 1,
 a dense shape grid with the exact convex location for b ≥ 1, both refined by scipy's bounded
@@ -31,9 +31,11 @@ from mle_bruteforce import brute_force  # noqa: E402
 
 
 def _returns(name: str) -> np.ndarray:
-    from arch.data import nasdaq, sp500
+    from real_series import index as real_index
 
-    prices = (sp500 if name == "sp500" else nasdaq).load()["Adj Close"].to_numpy(float)
+    prices = (
+        (real_index(2) if name == "index2" else real_index(1)).load()["Adj Close"].to_numpy(float)
+    )
     return np.diff(np.log(prices))
 
 
@@ -98,7 +100,7 @@ def main() -> None:
     ap = argparse.ArgumentParser()
     ap.add_argument("--stride", type=int, default=1)
     ap.add_argument("--windows", default="250,1000,5000")
-    ap.add_argument("--series", default="sp500,nasdaq")
+    ap.add_argument("--series", default="index2,index1")
     ap.add_argument("--limit5000", type=int, default=40)
     ap.add_argument("--offset", type=int, default=0, help="first window ends this much later")
     ap.add_argument("--no-rounded", action="store_true", help="skip the rounded-price samples")

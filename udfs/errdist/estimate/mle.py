@@ -525,7 +525,7 @@ def _search_regions(xs: np.ndarray, b0: float, ws: _Workspace) -> tuple[float, f
 
     The profile ℓ(m, b) changes character at b = 1 (location an observation below, the
     root of a smooth score above), and real samples often have one local maximum on each
-    side within a few per cent of b = 1 (the S&P 500 250-day windows: about 1 in 200). A
+    side within a few per cent of b = 1 (the index 2 250-day windows: about 1 in 200). A
     single search from one start finds the maximum on its own side only, so both regions
     are searched, each from the start shape clipped into it, and the larger maximum wins
     (b = 1 belongs to both, so a region whose search ends at b = 1 can never beat the other).

@@ -25,7 +25,7 @@ The law fits of "skewed" and "ewma" use the warm-started local search of the one
 fit, :func:`errdist.law.skewed.fit_skewed` with ``method="local"`` and the previous window's
 fit as ``start`` (the first window gets the exact search): the exact search takes about
 0.15 s at 250 points and 0.55 s at 1,000, too slow for ~200 refits per model within the
-command's time budget. The local search is not certified global: on the arch.data sp500
+command's time budget. The local search is not certified global: on the arch.data index 2
 windows it falls short of the exact fit in about one refit in seven, by at most about 1
 log-likelihood unit (docs/backtesting.md).
 ``"gjr"`` / ``"garch"``
